@@ -1,0 +1,115 @@
+"""The public API for rule plugins: rules, options, findings, the check context.
+
+A rule is a small value: a kebab-case name, a default severity, a one-line
+summary, documentation (why, source, a failing and a passing example), its
+options with defaults, and a ``check`` function that yields findings. The
+host attaches the rule name and the configured severity to each finding, so
+a rule never decides its own severity unless it has two (``severity`` on a
+``Finding`` overrides, as ``overload-setting`` does for its warning case).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any, Callable, Iterable
+
+from .model import Diagnostic, Location, Schematic, Severity
+
+if TYPE_CHECKING:  # pragma: no cover
+    from .circuit import Circuit
+
+
+@dataclass(frozen=True)
+class Option:
+    """A rule option: its default and a check of the configured value.
+
+    ``type`` is int, float, str, bool or list; ``choices`` closes a str option.
+    """
+
+    default: Any
+    doc: str
+    type: type = int
+    choices: tuple[Any, ...] = ()
+    minimum: float | None = None
+
+    def validate(self, value: Any) -> str | None:
+        """Return a problem with ``value``, or None when it is acceptable."""
+        if self.type is float and isinstance(value, int) and not isinstance(value, bool):
+            value = float(value)
+        if not isinstance(value, self.type) or (self.type is int and isinstance(value, bool)):
+            return f"must be {self.type.__name__}, not {type(value).__name__}"
+        if self.choices and value not in self.choices:
+            return "must be one of " + ", ".join(map(str, self.choices))
+        if self.minimum is not None and value < self.minimum:
+            return f"must be at least {self.minimum}"
+        return None
+
+
+@dataclass(frozen=True)
+class Finding:
+    """What a rule's check yields: where, what, and about what.
+
+    ``subject`` names the device or element the finding is about (for
+    baselines); it defaults to nothing. ``severity`` overrides the rule's
+    configured severity only for rules that document two levels.
+    """
+
+    at: Location
+    message: str
+    subject: str = ""
+    severity: Severity | None = None
+
+
+@dataclass(frozen=True)
+class Example:
+    """A short schematic fragment for the documentation."""
+
+    title: str
+    yaml: str
+
+
+@dataclass(frozen=True)
+class Rule:
+    """A registered rule. ``check(ctx)`` yields ``Finding`` values.
+
+    ``doc`` is the documentation ``ctllint explain`` prints: why the rule
+    exists; ``source`` the standard and clause it rests on, or "common
+    practice"; ``failing`` and ``passing`` one example each.
+    """
+
+    name: str
+    severity: Severity
+    summary: str
+    doc: str
+    source: str
+    check: Callable[["CheckContext"], Iterable[Finding]]
+    failing: Example | None = None
+    passing: Example | None = None
+    options: dict[str, Option] = field(default_factory=dict)
+    plugin: str = ""  # filled in by the host with the registering plugin's name
+
+
+@dataclass
+class CheckContext:
+    """What a rule sees: the schematic, its circuit analyses, its options."""
+
+    schematic: Schematic
+    circuit: "Circuit"
+    options: dict[str, Any]
+    rule: Rule | None = None
+
+    @property
+    def devices(self):
+        return self.schematic.devices
+
+
+@dataclass(frozen=True)
+class OutputFormat:
+    """An output format: ``render(diagnostics, files, rules)`` returns the text.
+
+    ``files`` is the list of checked file paths; ``rules`` maps rule names to
+    ``Rule`` values (for formats that carry rule metadata).
+    """
+
+    name: str
+    render: Callable[[list[Diagnostic], list[str], dict[str, Rule]], str]
+    summary: str = ""

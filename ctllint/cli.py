@@ -1,0 +1,285 @@
+"""The ``ctllint`` command line.
+
+Exit status: 0 when no finding is at or above ``--fail-on`` (default
+error), 1 when one is, 2 for a usage or configuration error, 3 for an
+internal error.
+"""
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+import textwrap
+import traceback
+from typing import Any, Callable
+
+from . import __version__
+from .config import Config, ConfigError, find_config, load_config, resolve_rules
+from .host import PluginHost, RuleSettings
+from .model import Diagnostic, Severity
+from .report import SAFETY_NOTE, render_text, summary_line, use_colour
+
+EXIT_OK, EXIT_FINDINGS, EXIT_USAGE, EXIT_INTERNAL = 0, 1, 2, 3
+
+DESCRIPTION = """\
+Check motor-control and relay-logic schematics (*.ctl.yaml) against design
+rules: stop buttons normally closed and in series, overloads in every
+starter coil path, seal-ins, contact ratings, coil voltages, grounded-side
+switching, automatic restart, transformer and fuse sizing, and more.
+
+""" + SAFETY_NOTE
+
+EPILOG = """\
+examples:
+  ctllint check                       check every *.ctl.yaml below this folder
+  ctllint check plant/ --format sarif -o ctllint.sarif
+  ctllint rules                       list every rule with its plugin and severity
+  ctllint explain seal-in             why a rule exists, its source and examples
+
+exit status: 0 clean, 1 findings at or above --fail-on, 2 usage or
+configuration error, 3 internal error.
+"""
+
+
+class UsageError(Exception):
+    """Bad command-line use: exit status 2."""
+
+
+COMMANDS: dict[str, tuple[Callable[[argparse.ArgumentParser], None], Callable[[argparse.Namespace], int], str]] = {}
+
+
+def command(name: str, help: str):
+    def wrap(pair):
+        COMMANDS[name] = (pair[0], pair[1], help)
+        return pair
+    return wrap
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str) -> None:  # exit 2 with the usage, as argparse does, but through our path
+        raise UsageError(f"{self.prog}: {message}\n{self.format_usage().strip()}")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(prog="ctllint", description=DESCRIPTION, epilog=EPILOG, formatter_class=argparse.RawDescriptionHelpFormatter)
+    parser.add_argument("--version", action="version", version=f"ctllint {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    for name, (configure, _, help_text) in COMMANDS.items():
+        p = sub.add_parser(name, help=help_text, description=help_text, formatter_class=argparse.RawDescriptionHelpFormatter)
+        configure(p)
+    return parser
+
+
+# -- shared setup --------------------------------------------------------------
+
+def add_config_args(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--config", metavar="FILE", help="configuration file (default: .ctllint.yaml or [tool.ctllint] in pyproject.toml, found by walking up from the current folder)")
+
+
+def setup(args: argparse.Namespace) -> tuple[Config, PluginHost]:
+    path = getattr(args, "config", None)
+    if path is not None and not os.path.isfile(path):
+        raise UsageError(f"ctllint: configuration file '{path}' does not exist")
+    cfg = load_config(path or find_config(os.getcwd()))
+    host = PluginHost.create(local_plugins=cfg.plugins)
+    return cfg, host
+
+
+def settings_for(cfg: Config, host: PluginHost, select: list[str] | None, ignore: list[str]) -> RuleSettings:
+    try:
+        enabled, severities, options = resolve_rules(cfg, host.rules, select, ignore)
+    except ValueError as exc:
+        raise UsageError(f"ctllint: {exc}") from None
+    return RuleSettings(enabled, severities, options, time_limit=cfg.limits.plugin_seconds)
+
+
+def split_names(values: list[str] | None) -> list[str]:
+    out: list[str] = []
+    for v in values or []:
+        out.extend(x.strip() for x in v.split(",") if x.strip())
+    return out
+
+
+def write_output(text: str, output: str | None) -> None:
+    """Print, or write ``output`` atomically: a temporary file beside it, then a rename."""
+    if output is None or output == "-":
+        sys.stdout.write(text)
+        sys.stdout.flush()
+        return
+    folder = os.path.dirname(os.path.abspath(output))
+    if not os.path.isdir(folder):
+        raise UsageError(f"ctllint: cannot write {output}: folder {folder} does not exist")
+    import tempfile
+
+    fd, tmp = tempfile.mkstemp(prefix=".ctllint-", suffix=".tmp", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
+            handle.write(text)
+        os.replace(tmp, output)
+    except BaseException:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise
+
+
+# -- check ---------------------------------------------------------------------
+
+def _configure_check(p: argparse.ArgumentParser) -> None:
+    p.description = "Check schematic files and print findings.\n\n" + SAFETY_NOTE
+    p.add_argument("paths", nargs="*", metavar="PATH", help="files or folders (default: the current folder); folders are searched for *.ctl.yaml and *.ctl.yml")
+    p.add_argument("--format", default="text", metavar="FORMAT", help="text (default), json, sarif, junit, or a plugin's format")
+    p.add_argument("-o", "--output", metavar="FILE", help="write the report to FILE (atomically) instead of standard output")
+    p.add_argument("--select", action="append", metavar="RULES", help="check only these rules or plugins (comma-separated; repeatable)")
+    p.add_argument("--ignore", action="append", metavar="RULES", help="skip these rules or plugins (comma-separated; repeatable)")
+    p.add_argument("--fail-on", choices=("error", "warning", "info"), help="lowest severity that makes the exit status 1 (default: error)")
+    p.add_argument("-j", "--jobs", type=int, metavar="N", help="check files in N processes (default: the number of cores)")
+    p.add_argument("--no-cache", action="store_true", help="do not read or write the result cache")
+    p.add_argument("--baseline", metavar="FILE", help="report only findings not recorded in this baseline")
+    p.add_argument("--write-baseline", metavar="FILE", help="record today's findings in FILE and exit 0")
+    add_config_args(p)
+
+
+def _run_check(args: argparse.Namespace) -> int:
+    from .run import run_check
+
+    cfg, host = setup(args)
+    if args.format not in host.formats:
+        raise UsageError(f"ctllint: unknown format '{args.format}' (available: {', '.join(sorted(host.formats))})")
+    settings = settings_for(cfg, host, split_names(args.select) or None, split_names(args.ignore))
+    if args.jobs is not None and args.jobs < 1:
+        raise UsageError("ctllint: --jobs must be at least 1")
+    paths = args.paths or ["."]
+    result = run_check(paths, cfg, host, settings, jobs=args.jobs, use_cache=not args.no_cache)
+    if result.missing:
+        raise UsageError("ctllint: " + "; ".join(f"path '{m}' does not exist" for m in result.missing))
+    diagnostics = result.diagnostics
+    if args.write_baseline:
+        from .baseline import write_baseline
+
+        write_baseline(args.write_baseline, diagnostics)
+        print(f"ctllint: recorded {len(diagnostics)} finding(s) in {args.write_baseline}", file=sys.stderr)
+        return EXIT_OK
+    if args.baseline:
+        from .baseline import filter_baseline
+
+        diagnostics = filter_baseline(args.baseline, diagnostics)
+    fmt = host.formats[args.format]
+    if args.format == "text":
+        text = render_text(diagnostics, result.files, host.rules, colour=args.output is None and use_colour())
+    else:
+        text = fmt.render(diagnostics, result.files, host.rules)
+    write_output(text, args.output)
+    fail_on = Severity.parse(args.fail_on or cfg.fail_on or "error")
+    failed = any(d.severity >= fail_on for d in diagnostics)
+    if args.format == "text" or args.output:
+        tail = summary_line(diagnostics, result.files)
+        print(f"ctllint: {tail}", file=sys.stderr)
+        if diagnostics:
+            print(textwrap.fill(SAFETY_NOTE, 78), file=sys.stderr)
+    return EXIT_FINDINGS if failed else EXIT_OK
+
+
+command("check", "check schematic files and print findings")((_configure_check, _run_check))
+
+
+# -- rules / explain --------------------------------------------------------------
+
+def _configure_rules(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--format", choices=("text", "json", "markdown"), default="text", help="table layout (default text)")
+    add_config_args(p)
+
+
+def rules_table(host: PluginHost, fmt: str = "text") -> str:
+    rows = [(r.name, r.plugin, str(r.severity), r.summary) for r in host.rules.values()]
+    if fmt == "json":
+        import json
+
+        return json.dumps([{"rule": a, "plugin": b, "severity": c, "summary": d} for a, b, c, d in rows], indent=2) + "\n"
+    if fmt == "markdown":
+        lines = ["| rule | plugin | severity | summary |", "|---|---|---|---|"]
+        lines += [f"| `{a}` | {b} | {c} | {d} |" for a, b, c, d in rows]
+        return "\n".join(lines) + "\n"
+    widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(("RULE", "PLUGIN", "SEVERITY"))]
+    out = [f"{'RULE':<{widths[0]}}  {'PLUGIN':<{widths[1]}}  {'SEVERITY':<{widths[2]}}  SUMMARY"]
+    out += [f"{a:<{widths[0]}}  {b:<{widths[1]}}  {c:<{widths[2]}}  {d}" for a, b, c, d in rows]
+    return "\n".join(out) + "\n"
+
+
+def _run_rules(args: argparse.Namespace) -> int:
+    _, host = setup(args)
+    sys.stdout.write(rules_table(host, args.format))
+    for p in host.problems:
+        print(f"ctllint: plugin-error: {p.plugin}: {p.message}", file=sys.stderr)
+    return EXIT_OK
+
+
+command("rules", "list every registered rule: name, plugin, default severity, summary")((_configure_rules, _run_rules))
+
+
+def _configure_explain(p: argparse.ArgumentParser) -> None:
+    p.add_argument("rule", metavar="RULE", help="a rule name, as 'ctllint rules' lists them")
+    add_config_args(p)
+
+
+def explain_text(rule: Any) -> str:
+    parts = [f"{rule.name}  ({rule.plugin} plugin, default severity {rule.severity})", "", rule.summary, ""]
+    parts += [textwrap.fill(para, 78) for para in textwrap.dedent(rule.doc).strip().split("\n\n")]
+    parts += ["", f"Source: {rule.source}"]
+    for label, ex in (("Failing example", rule.failing), ("Passing example", rule.passing)):
+        if ex is not None:
+            parts += ["", f"{label}: {ex.title}", textwrap.indent(textwrap.dedent(ex.yaml).strip("\n"), "    ")]
+    parts += ["", "Options:"]
+    if rule.options:
+        for name, opt in rule.options.items():
+            parts.append(f"    {name} (default {opt.default!r}): {opt.doc}")
+    else:
+        parts.append("    none (severity can be set under rules: in the configuration)")
+    parts += ["", f"Suppress one finding with a comment on its line: # ctllint-allow: {rule.name} -- reason"]
+    return "\n".join(parts) + "\n"
+
+
+def _run_explain(args: argparse.Namespace) -> int:
+    _, host = setup(args)
+    rule = host.rules.get(args.rule)
+    if rule is None:
+        import difflib
+
+        hint = difflib.get_close_matches(args.rule, list(host.rules), n=1)
+        raise UsageError(f"ctllint: no rule named '{args.rule}'" + (f" (did you mean '{hint[0]}'?)" if hint else "; see 'ctllint rules'"))
+    sys.stdout.write(explain_text(rule))
+    return EXIT_OK
+
+
+command("explain", "print a rule's documentation: why, source, a failing and a passing example, options")((_configure_explain, _run_explain))
+
+
+# -- main -----------------------------------------------------------------------
+
+def main(argv: list[str] | None = None) -> int:
+    from . import commands  # noqa: F401  (registers the further commands)
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+        if not args.command:
+            parser.print_help()
+            return EXIT_USAGE
+        return COMMANDS[args.command][1](args)
+    except UsageError as exc:
+        print(str(exc), file=sys.stderr)
+        return EXIT_USAGE
+    except ConfigError as exc:
+        print(f"ctllint: configuration error: {exc}", file=sys.stderr)
+        return EXIT_USAGE
+    except KeyboardInterrupt:
+        print("ctllint: interrupted", file=sys.stderr)
+        return 130
+    except BrokenPipeError:
+        return EXIT_OK
+    except Exception:  # noqa: BLE001
+        print("ctllint: internal error; please report it with this trace:", file=sys.stderr)
+        traceback.print_exc()
+        return EXIT_INTERNAL
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

@@ -1,0 +1,281 @@
+"""The plugin host: finds plugins, collects their rules, runs them on a schematic.
+
+Plugins come from the ``ctllint`` entry-point group (the built-in rules
+register there too) and from local plugin paths named in configuration. A
+plugin that fails to import, registers garbage, raises or runs past the
+time limit becomes a ``plugin-error`` finding naming it; the other rules
+still run.
+"""
+from __future__ import annotations
+
+import importlib
+import importlib.metadata
+import importlib.util
+import os
+import signal
+import sys
+import threading
+import time
+from dataclasses import dataclass, field
+from typing import Any, Iterable
+
+import pluggy
+
+from . import hookspecs
+from .api import CheckContext, Finding, OutputFormat, Rule
+from .kinds import DeviceKind, KindRegistry
+from .model import Diagnostic, Location, Schematic, Severity
+
+CORE_RULES = ("format", "plugin-error")
+
+
+@dataclass
+class PluginProblem:
+    plugin: str
+    message: str
+
+
+class PluginTimeout(BaseException):
+    """Raised inside a rule that ran past the per-file time limit.
+
+    A BaseException, so that a rule's own ``except Exception`` cannot swallow it.
+    """
+
+
+@dataclass
+class PluginHost:
+    """The plugins of one run and what they registered."""
+
+    pm: pluggy.PluginManager
+    rules: dict[str, Rule] = field(default_factory=dict)
+    kinds: KindRegistry = field(default_factory=KindRegistry.builtin)
+    formats: dict[str, OutputFormat] = field(default_factory=dict)
+    problems: list[PluginProblem] = field(default_factory=list)
+    plugin_names: list[str] = field(default_factory=list)
+
+    # ------------------------------------------------------------------
+    @classmethod
+    def create(cls, local_plugins: Iterable[str] = (), entry_points: bool = True, extra: Iterable[Any] = ()) -> "PluginHost":
+        """Load entry-point plugins, then local plugin paths, then ``extra`` objects."""
+        pm = pluggy.PluginManager(hookspecs.PROJECT)
+        pm.add_hookspecs(hookspecs)
+        host = cls(pm)
+        from . import report  # the built-in output formats are a plugin like any other
+
+        pm.register(report, name="ctllint.report")
+        if entry_points:
+            host._load_entry_points()
+        for path in local_plugins:
+            host._load_local(path)
+        for obj in extra:
+            name = getattr(obj, "__name__", None) or type(obj).__name__
+            pm.register(obj, name=name)
+        try:
+            pm.check_pending()
+        except pluggy.PluginValidationError as exc:
+            host.problems.append(PluginProblem(str(getattr(exc, "plugin", "?")), str(exc).splitlines()[0]))
+        host._collect()
+        return host
+
+    def _load_entry_points(self) -> None:
+        eps = sorted(importlib.metadata.entry_points(group=hookspecs.PROJECT), key=lambda ep: (ep.name, ep.value))
+        seen: set[str] = set()
+        for ep in eps:
+            if ep.name in seen:
+                continue
+            seen.add(ep.name)
+            try:
+                module = ep.load()
+            except BaseException as exc:  # noqa: BLE001 - a broken plugin must not stop the run
+                if isinstance(exc, (KeyboardInterrupt, SystemExit)) and not isinstance(exc, SystemExit):
+                    raise
+                self.problems.append(PluginProblem(ep.name, f"failed to import {ep.value}: {_one_line(exc)}"))
+                continue
+            self._register(module, ep.name)
+
+    def _load_local(self, path: str) -> None:
+        name = "ctllint_local_" + "".join(c if c.isalnum() else "_" for c in os.path.splitext(os.path.basename(path.rstrip("/")))[0])
+        target = os.path.join(path, "__init__.py") if os.path.isdir(path) else path
+        try:
+            spec = importlib.util.spec_from_file_location(name, target, submodule_search_locations=[path] if os.path.isdir(path) else None)
+            if spec is None or spec.loader is None:
+                raise ImportError(f"cannot import {path}")
+            module = importlib.util.module_from_spec(spec)
+            sys.modules[name] = module
+            spec.loader.exec_module(module)
+        except BaseException as exc:  # noqa: BLE001
+            if isinstance(exc, KeyboardInterrupt):
+                raise
+            sys.modules.pop(name, None)
+            self.problems.append(PluginProblem(path, f"failed to import local plugin {path}: {_one_line(exc)}"))
+            return
+        self._register(module, os.path.basename(path.rstrip("/")))
+
+    def _register(self, module: Any, name: str) -> None:
+        try:
+            self.pm.register(module, name=name)
+            self.plugin_names.append(name)
+        except Exception as exc:  # noqa: BLE001
+            self.problems.append(PluginProblem(name, f"cannot be registered: {_one_line(exc)}"))
+
+    def call_each(self, hook: str, **kwargs: Any) -> list[tuple[str, Any]]:
+        """Call every implementation of ``hook`` on its own; a raising one becomes a problem."""
+        results = []
+        caller = getattr(self.pm.hook, hook)
+        for impl in reversed(caller.get_hookimpls()):
+            if impl.hookwrapper or getattr(impl, "wrapper", False):
+                continue
+            try:
+                value = impl.function(**{a: kwargs[a] for a in impl.argnames})
+                if value is not None:
+                    value = list(value)
+            except Exception as exc:  # noqa: BLE001
+                self.problems.append(PluginProblem(impl.plugin_name, f"{hook} raised {_one_line(exc)}"))
+                continue
+            if value is not None:
+                results.append((impl.plugin_name, value))
+        return results
+
+    def _collect(self) -> None:
+        for plugin, kinds in self.call_each("ctllint_device_kinds"):
+            for kind in kinds:
+                if not isinstance(kind, DeviceKind):
+                    self.problems.append(PluginProblem(plugin, f"ctllint_device_kinds returned {type(kind).__name__}, not a DeviceKind"))
+                elif kind.name in self.kinds:
+                    self.problems.append(PluginProblem(plugin, f"device kind '{kind.name}' is already defined"))
+                else:
+                    self.kinds.add(kind)
+        for plugin, rules in self.call_each("ctllint_rules"):
+            for rule in rules:
+                if not isinstance(rule, Rule) or not callable(getattr(rule, "check", None)):
+                    self.problems.append(PluginProblem(plugin, f"ctllint_rules returned {type(rule).__name__}, not a Rule"))
+                    continue
+                if rule.name in self.rules or rule.name in CORE_RULES:
+                    other = self.rules[rule.name].plugin if rule.name in self.rules else "core"
+                    self.problems.append(PluginProblem(plugin, f"rule '{rule.name}' is already registered by {other}"))
+                    continue
+                object.__setattr__(rule, "plugin", plugin)
+                self.rules[rule.name] = rule
+        for plugin, formats in self.call_each("ctllint_output_formats"):
+            for fmt in formats:
+                if isinstance(fmt, OutputFormat) and fmt.name not in self.formats:
+                    self.formats[fmt.name] = fmt
+                else:
+                    self.problems.append(PluginProblem(plugin, f"output format {getattr(fmt, 'name', fmt)!r} is not an OutputFormat or is already registered"))
+        self.rules = dict(sorted(self.rules.items()))
+
+
+def _one_line(exc: BaseException) -> str:
+    text = str(exc).strip().splitlines()
+    return f"{type(exc).__name__}: {text[0]}" if text else type(exc).__name__
+
+
+@dataclass
+class RuleSettings:
+    """What configuration decided for one run: enabled rules, severities, options."""
+
+    enabled: list[str]
+    severities: dict[str, Severity]
+    options: dict[str, dict[str, Any]]
+    time_limit: float = 60.0
+
+
+def plugin_error(path: str, message: str) -> Diagnostic:
+    return Diagnostic(path, 1, 1, "plugin-error", Severity.ERROR, message)
+
+
+class _Deadline:
+    """Raise PluginTimeout in the main thread when a file's rules run too long."""
+
+    def __init__(self, seconds: float):
+        self.seconds = seconds
+        self.usable = seconds > 0 and hasattr(signal, "setitimer") and threading.current_thread() is threading.main_thread()
+        self.started = 0.0
+
+    def __enter__(self) -> "_Deadline":
+        self.started = time.monotonic()
+        if self.usable:
+            self._old = signal.signal(signal.SIGALRM, self._fire)
+            signal.setitimer(signal.ITIMER_REAL, self.seconds)
+        return self
+
+    def _fire(self, signum: int, frame: Any) -> None:
+        raise PluginTimeout()
+
+    def __exit__(self, *exc: Any) -> None:
+        if self.usable:
+            signal.setitimer(signal.ITIMER_REAL, 0)
+            signal.signal(signal.SIGALRM, self._old)
+
+    def expired(self) -> bool:
+        return self.seconds > 0 and time.monotonic() - self.started >= self.seconds
+
+
+def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings) -> list[Diagnostic]:
+    """Run the enabled rules on a loaded schematic; plugin faults become findings."""
+    from .circuit import Circuit
+
+    path = schematic.path
+    out: list[Diagnostic] = []
+    circuit = Circuit(schematic)
+    with _Deadline(settings.time_limit) as deadline:
+        for name in settings.enabled:
+            rule = host.rules.get(name)
+            if rule is None:
+                continue
+            if deadline.expired():
+                out.append(plugin_error(path, f"rule {name} ({rule.plugin}) did not run: the file's rules passed the time limit of {settings.time_limit:g} s (limits.plugin_seconds)"))
+                continue
+            ctx = CheckContext(schematic, circuit, settings.options.get(name, {}), rule)
+            try:
+                found = list(rule.check(ctx) or ())
+            except PluginTimeout:
+                out.append(plugin_error(path, f"rule {name} ({rule.plugin}) did not finish within {settings.time_limit:g} s (limits.plugin_seconds) and was stopped"))
+                continue
+            except RecursionError:
+                out.append(plugin_error(path, f"rule {name} ({rule.plugin}) raised RecursionError"))
+                continue
+            except Exception as exc:  # noqa: BLE001
+                out.append(plugin_error(path, f"rule {name} ({rule.plugin}) raised {_one_line(exc)}"))
+                continue
+            out.extend(_to_diagnostics(found, rule, settings, path))
+        caller = host.pm.hook.ctllint_check
+        for impl in caller.get_hookimpls():
+            if impl.hookwrapper or getattr(impl, "wrapper", False):
+                continue
+            ctx = CheckContext(schematic, circuit, {}, None)
+            try:
+                value = impl.function(**{a: {"context": ctx}[a] for a in impl.argnames})
+                pairs = list(value or ())
+            except PluginTimeout:
+                out.append(plugin_error(path, f"plugin {impl.plugin_name} did not finish its check within {settings.time_limit:g} s"))
+                continue
+            except Exception as exc:  # noqa: BLE001
+                out.append(plugin_error(path, f"plugin {impl.plugin_name} raised {_one_line(exc)}"))
+                continue
+            for pair in pairs:
+                try:
+                    rule_name, finding = pair
+                except (TypeError, ValueError):
+                    out.append(plugin_error(path, f"plugin {impl.plugin_name} returned {type(pair).__name__} from ctllint_check, not (rule, Finding)"))
+                    break
+                rule = host.rules.get(rule_name)
+                if rule is None or rule.plugin != impl.plugin_name:
+                    out.append(plugin_error(path, f"plugin {impl.plugin_name} reported rule {rule_name!r}, which it did not register"))
+                    continue
+                if rule_name in settings.enabled:
+                    out.extend(_to_diagnostics([finding], rule, settings, path))
+    return out
+
+
+def _to_diagnostics(found: list[Any], rule: Rule, settings: RuleSettings, path: str) -> list[Diagnostic]:
+    out = []
+    severity = settings.severities.get(rule.name, rule.severity)
+    for f in found:
+        if not isinstance(f, Finding) or not isinstance(f.at, Location) or not isinstance(f.message, str):
+            return [plugin_error(path, f"rule {rule.name} ({rule.plugin}) returned {type(f).__name__}, not a Finding with a Location")]
+        sev = severity
+        if f.severity is not None and rule.name not in settings.severities:
+            sev = f.severity
+        out.append(Diagnostic(f.at.path, f.at.line, f.at.column, rule.name, sev, f.message, f.subject))
+    return out

@@ -1,0 +1,811 @@
+"""Load schematic files (FORMAT.md version 1) into located model objects.
+
+Every value the file holds keeps its 1-based line and column. Every breach
+of the format becomes a ``format`` diagnostic at the offending value; the
+loader reports all of a file's format errors it can find, not only the
+first, and returns no schematic when there were any.
+"""
+from __future__ import annotations
+
+import math
+import os
+import re
+from dataclasses import dataclass, field
+from typing import Any, Callable
+
+from ruamel.yaml.nodes import MappingNode, Node, ScalarNode, SequenceNode
+
+from . import kinds as K
+from .kinds import DeviceKind, KindRegistry
+from .model import (
+    CategoryRating,
+    ContactCount,
+    ContactRating,
+    Device,
+    Diagnostic,
+    Element,
+    Location,
+    Path,
+    PowerRating,
+    Rung,
+    Scenario,
+    Schematic,
+    Severity,
+    Step,
+    Supply,
+)
+from .quantities import QuantityError, parse_quantity
+from .yamlsafe import Limits, YamlProblem, check_tree, compose, pos, scalar_value
+
+FORMAT_VERSION = 1
+SCHEMATIC_SUFFIXES = (".ctl.yaml", ".ctl.yml")
+TOP_KEYS = ("ctllint", "title", "supplies", "devices", "rungs", "expect", "use")
+REQUIRED_TOP = ("ctllint", "supplies", "devices", "rungs")
+DEVICE_FILE_KEYS = ("ctllint", "title", "devices")
+RUNG_KEYS = ("title", "number", "paths", "jog", "restart", "note")
+SUPPLY_KEYS = ("hot", "common", "voltage", "grounded", "source")
+STEP_ACTIONS = ("press", "release", "set", "trip", "reset", "power", "wait", "check")
+TAG_RE = re.compile(r"^[^.\s]+$")
+REF_RE = re.compile(r"^(?P<tag>[^.\s]+)(?:\.(?P<part>[^.\s]+))?$")
+PILOT_DUTY = re.compile(r"^[ABCDE](?:150|300|600)$|^[NPQR](?:150|300|600)$")
+PILOT_DUTY_VALID = {
+    "A600", "A300", "A150", "B600", "B300", "B150", "C600", "C300", "C150", "D300", "D150", "E150",
+    "N600", "N300", "N150", "P600", "P300", "P150", "Q600", "Q300", "Q150", "R300", "R150",
+}
+CATEGORY_RE = re.compile(r"^(AC|DC)-[0-9]+[a-z]?$")
+NEMA_SIZES = ("00", "0", "1", "2", "3", "4", "5", "6", "7", "8", "9")
+
+
+class _Stop(Exception):
+    """Abandon the value being read; its error is already recorded."""
+
+
+@dataclass
+class LoadResult:
+    schematic: Schematic | None
+    diagnostics: list[Diagnostic]
+    used_files: list[str] = field(default_factory=list)
+
+
+def format_error(path: str, line: int, column: int, message: str) -> Diagnostic:
+    return Diagnostic(path, line, column, "format", Severity.ERROR, message)
+
+
+def find_repository_root(path: str) -> str:
+    """The nearest folder above ``path`` holding ``.git``, else the file's own folder."""
+    folder = os.path.dirname(os.path.abspath(path))
+    probe = folder
+    while True:
+        if os.path.exists(os.path.join(probe, ".git")):
+            return probe
+        parent = os.path.dirname(probe)
+        if parent == probe:
+            return folder
+        probe = parent
+
+
+class DeviceFileCache:
+    """Parsed shared device files, keyed by real path and modification time."""
+
+    def __init__(self) -> None:
+        self._cache: dict[str, tuple[float, "LoadResult"]] = {}
+
+    def get(self, real: str, loader: Callable[[], "LoadResult"]) -> "LoadResult":
+        try:
+            mtime = os.stat(real).st_mtime_ns
+        except OSError:
+            mtime = -1
+        hit = self._cache.get(real)
+        if hit and hit[0] == mtime:
+            return hit[1]
+        result = loader()
+        self._cache[real] = (mtime, result)
+        return result
+
+
+def read_text(path: str, limits: Limits) -> tuple[str | None, Diagnostic | None]:
+    """Read a file as UTF-8 (a byte-order mark allowed), or say why not."""
+    try:
+        size = os.path.getsize(path)
+        if size > limits.max_file_bytes:
+            return None, format_error(path, 1, 1, f"file is {size / 1e6:.1f} MB, above the limit of {limits.max_file_bytes / 1e6:.1f} MB (limits.max_file_bytes)")
+        with open(path, "rb") as handle:
+            data = handle.read()
+    except IsADirectoryError:
+        return None, format_error(path, 1, 1, "is a folder, not a schematic file")
+    except OSError as exc:
+        return None, format_error(path, 1, 1, f"cannot read file: {exc.strerror or exc}")
+    if data.startswith(b"\xef\xbb\xbf"):
+        data = data[3:]
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = data[: exc.start].count(b"\n") + 1
+        col = exc.start - (data.rfind(b"\n", 0, exc.start) + 1) + 1
+        return None, format_error(path, line, col, f"not UTF-8: byte 0x{data[exc.start]:02x} cannot be decoded")
+    if "\x00" in text:
+        i = text.index("\x00")
+        return None, format_error(path, text.count("\n", 0, i) + 1, 1, "file holds a NUL character; schematics are text")
+    return text, None
+
+
+def load_file(
+    path: str,
+    kinds: KindRegistry | None = None,
+    limits: Limits | None = None,
+    device_cache: DeviceFileCache | None = None,
+    display_path: str | None = None,
+) -> LoadResult:
+    """Load the schematic at ``path``; ``display_path`` is how messages name it."""
+    limits = limits or Limits()
+    shown = display_path or path
+    text, problem = read_text(path, limits)
+    if problem is not None:
+        return LoadResult(None, [Diagnostic(shown, problem.line, problem.column, "format", Severity.ERROR, problem.message)])
+    return load_text(text, shown, kinds=kinds, limits=limits, device_cache=device_cache, real_path=path)
+
+
+def load_text(
+    text: str,
+    path: str = "t.ctl.yaml",
+    kinds: KindRegistry | None = None,
+    limits: Limits | None = None,
+    device_cache: DeviceFileCache | None = None,
+    real_path: str | None = None,
+) -> LoadResult:
+    """Load schematic text. ``path`` names the file in diagnostics and resolves ``use``."""
+    loader = _Loader(path, real_path or path, kinds or KindRegistry.builtin(), limits or Limits(), device_cache)
+    return loader.load(text)
+
+
+class _Loader:
+    def __init__(self, path: str, real_path: str, kinds: KindRegistry, limits: Limits, cache: DeviceFileCache | None):
+        self.path = path
+        self.real_path = real_path
+        self.kinds = kinds
+        self.limits = limits
+        self.cache = cache
+        self.errors: list[Diagnostic] = []
+        self.used: list[str] = []
+
+    # -- helpers -------------------------------------------------------
+    def loc(self, node: Node) -> Location:
+        line, col = pos(node)
+        return Location(self.path, line, col)
+
+    def error(self, node: Node | Location, message: str) -> None:
+        loc = node if isinstance(node, Location) else self.loc(node)
+        self.errors.append(Diagnostic(loc.path, loc.line, loc.column, "format", Severity.ERROR, message))
+
+    def fail(self, node: Node, message: str):
+        self.error(node, message)
+        raise _Stop
+
+    def mapping(self, node: Node, what: str) -> list[tuple[str, ScalarNode, Node]]:
+        if not isinstance(node, MappingNode):
+            self.fail(node, f"{what} must be a mapping (key: value), not {_describe(node)}")
+        out = []
+        for knode, vnode in node.value:
+            key = scalar_value(knode)
+            if isinstance(key, int) and not isinstance(key, bool):
+                key = str(key)
+            if not isinstance(key, str):
+                self.error(knode, f"key '{knode.value}' in {what} must be text")
+                continue
+            out.append((key, knode, vnode))
+        return out
+
+    def sequence(self, node: Node, what: str) -> list[Node]:
+        if not isinstance(node, SequenceNode):
+            self.fail(node, f"{what} must be a list, not {_describe(node)}")
+        return list(node.value)
+
+    def scalar(self, node: Node, what: str) -> Any:
+        if not isinstance(node, ScalarNode):
+            self.fail(node, f"{what} must be a single value, not {_describe(node)}")
+        return scalar_value(node)
+
+    def text(self, node: Node, what: str, choices: tuple[str, ...] = ()) -> str:
+        value = self.scalar(node, what)
+        if not isinstance(value, str):
+            self.fail(node, f"{what} must be text, not {_describe_value(value)}")
+        if choices and value not in choices:
+            self.fail(node, f"{what} '{value}' is not one of: {', '.join(choices)}")
+        return value
+
+    def boolean(self, node: Node, what: str) -> bool:
+        value = self.scalar(node, what)
+        if not isinstance(value, bool):
+            self.fail(node, f"{what} must be true or false, not '{node.value}'")
+        return value
+
+    def wire(self, node: Node, what: str = "wire name") -> str:
+        value = self.scalar(node, what)
+        if isinstance(value, bool) or value is None or isinstance(value, float):
+            self.fail(node, f"{what} must be text or a whole number, not {_describe_value(value)} '{node.value}'")
+        text = str(value)
+        if not text.strip() or any(c.isspace() for c in text):
+            self.fail(node, f"{what} '{text}' is empty or holds a space")
+        return text
+
+    def tag(self, node: Node, what: str) -> str:
+        value = self.scalar(node, what)
+        if isinstance(value, int) and not isinstance(value, bool):
+            value = str(value)
+        if not isinstance(value, str) or not TAG_RE.match(value):
+            self.fail(node, f"{what} '{node.value}' is not a device tag (text with no dot and no space)")
+        return value
+
+    def quantity(self, node: Node, dimension: str, what: str):
+        value = self.scalar(node, what)
+        try:
+            return parse_quantity(value, dimension)
+        except QuantityError as exc:
+            self.fail(node, f"{what}: {exc}")
+
+    def unknown_key(self, knode: Node, key: str, where: str, allowed: tuple[str, ...]) -> None:
+        hint = _closest(key, allowed)
+        self.error(knode, f"unknown key '{key}' in {where}" + (f" (did you mean '{hint}'?)" if hint else f"; allowed: {', '.join(allowed)}"))
+
+    # -- the file ------------------------------------------------------
+    def load(self, text: str) -> LoadResult:
+        try:
+            root = compose(text, self.limits)
+            if root is None:
+                return self._done(None, [format_error(self.path, 1, 1, "file is empty: a schematic needs ctllint, supplies, devices and rungs")])
+            check_tree(root, self.limits)
+        except YamlProblem as exc:
+            return self._done(None, [format_error(self.path, exc.line, exc.column, exc.message)])
+        sch = Schematic(path=self.path, loc=self.loc(root), text_lines=text.splitlines())
+        try:
+            self.read_top(root, sch)
+        except _Stop:
+            pass
+        except RecursionError:
+            self.error(root, "structure nested too deeply to read")
+        if self.errors:
+            return self._done(None, self.errors)
+        return self._done(sch, [])
+
+    def _done(self, sch: Schematic | None, diags: list[Diagnostic]) -> LoadResult:
+        return LoadResult(sch, sorted(set(diags)), self.used)
+
+    def read_top(self, root: Node, sch: Schematic) -> None:
+        entries = self.mapping(root, "a schematic file")
+        keys = {k: (kn, vn) for k, kn, vn in entries}
+        for key, knode, _ in entries:
+            if key not in TOP_KEYS:
+                self.unknown_key(knode, key, "the top level", TOP_KEYS)
+        if "ctllint" not in keys:
+            self.fail(root, "missing 'ctllint: 1' (the format version) at the top level")
+        vnode = keys["ctllint"][1]
+        version = self.scalar(vnode, "ctllint")
+        if version != FORMAT_VERSION or isinstance(version, bool):
+            self.fail(vnode, f"format version '{vnode.value}' is not supported: this ctllint reads version {FORMAT_VERSION}")
+        device_file = "supplies" not in keys and "rungs" not in keys and "expect" not in keys and "use" not in keys and "devices" in keys
+        sch.device_file = device_file
+        if not device_file:
+            for req in REQUIRED_TOP:
+                if req not in keys:
+                    self.error(root, f"missing top-level key '{req}'")
+        if "title" in keys:
+            self._guard(lambda: setattr(sch, "title", self.text(keys["title"][1], "title")))
+        if "devices" in keys:
+            self._guard(lambda: self.read_devices(keys["devices"][1], sch))
+        if "use" in keys:
+            self._guard(lambda: self.read_use(keys["use"][1], sch))
+        if "supplies" in keys:
+            self._guard(lambda: self.read_supplies(keys["supplies"][1], sch))
+        if "rungs" in keys:
+            self._guard(lambda: self.read_rungs(keys["rungs"][1], sch))
+        if "expect" in keys:
+            self._guard(lambda: self.read_expect(keys["expect"][1], sch))
+        if not self.errors:
+            self.check_device_references(sch)
+
+    def _guard(self, fn: Callable[[], Any]) -> None:
+        try:
+            fn()
+        except _Stop:
+            pass
+
+    # -- devices -------------------------------------------------------
+    def read_devices(self, node: Node, sch: Schematic) -> None:
+        if isinstance(node, ScalarNode) and scalar_value(node) is None:
+            return
+        for tag, knode, vnode in self.mapping(node, "devices"):
+            if not TAG_RE.match(tag):
+                self.error(knode, f"device tag '{tag}' holds a dot or a space")
+                continue
+            try:
+                dev = self.read_device(tag, knode, vnode)
+            except _Stop:
+                continue
+            sch.devices[tag] = dev
+
+    def read_device(self, tag: str, knode: Node, vnode: Node) -> Device:
+        entries = self.mapping(vnode, f"device {tag}")
+        fields = {k: (kn, vn) for k, kn, vn in entries}
+        if "kind" not in fields:
+            self.fail(knode, f"device {tag} has no 'kind' (one of: {', '.join(self.kinds.names())})")
+        kind_node = fields["kind"][1]
+        kind_name = self.text(kind_node, f"kind of {tag}")
+        kind = self.kinds.get(kind_name)
+        if kind is None:
+            hint = _closest(kind_name, tuple(self.kinds.names()))
+            self.fail(kind_node, f"unknown device kind '{kind_name}' for {tag}" + (f" (did you mean '{hint}'?)" if hint else ""))
+        dev = Device(tag=tag, kind=kind_name, loc=self.loc(knode), origin=self.path)
+        dev.field_locs["kind"] = self.loc(kind_node)
+        allowed = ("kind", *kind.fields)
+        ok = True
+        for name, kn, vn in entries:
+            if name == "kind":
+                continue
+            spec = kind.fields.get(name)
+            if spec is None:
+                self.unknown_key(kn, name, f"{kind_name} {tag}", allowed)
+                ok = False
+                continue
+            try:
+                dev.fields[name] = self.read_field(vn, spec, f"{tag}.{name}" if False else f"{name} of {tag}", kind)
+                dev.field_locs[name] = self.loc(vn)
+            except _Stop:
+                ok = False
+        for req in kind.required:
+            if req not in fields:
+                self.error(knode, f"{kind_name} {tag} needs '{req}'")
+                ok = False
+        if kind.positions and "positions" in dev.fields:
+            pass
+        for name, spec in kind.fields.items():
+            if name not in dev.fields and spec.default is not None:
+                dev.fields[name] = spec.default
+        if not ok:
+            raise _Stop
+        return dev
+
+    def read_field(self, node: Node, spec: K.FieldSpec, what: str, kind: DeviceKind) -> Any:
+        t = spec.type
+        if t in (K.VOLTAGE, K.CURRENT, K.APPARENT, K.POWER, K.TIME, K.TEMPERATURE):
+            return self.quantity(node, t, what)
+        if t == K.BOOL:
+            return self.boolean(node, what)
+        if t == K.NUMBER:
+            value = self.scalar(node, what)
+            if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value) or value <= 0:
+                self.fail(node, f"{what} must be a positive number, not '{node.value}'")
+            return float(value)
+        if t == K.COUNT:
+            value = self.scalar(node, what)
+            if isinstance(value, bool) or not isinstance(value, int) or value <= 0:
+                self.fail(node, f"{what} must be a positive whole number, not '{node.value}'")
+            if spec.choices and str(value) not in spec.choices:
+                self.fail(node, f"{what} must be one of: {', '.join(spec.choices)}")
+            return value
+        if t == K.TEXT:
+            value = self.scalar(node, what)
+            if spec.choices and isinstance(value, bool):
+                # 'on'/'off' are text in YAML 1.2; true/false are not choices
+                self.fail(node, f"{what} must be one of: {', '.join(spec.choices)}")
+            if not isinstance(value, str):
+                self.fail(node, f"{what} must be text, not {_describe_value(value)}")
+            if spec.choices and value not in spec.choices:
+                self.fail(node, f"{what} '{value}' is not one of: {', '.join(spec.choices)}")
+            return value
+        if t == K.TAG:
+            return self.tag(node, what)
+        if t == K.TAGS:
+            items = self.sequence(node, what)
+            return [self.tag(n, what) for n in items]
+        if t == K.POSITIONS:
+            items = self.sequence(node, what)
+            names = []
+            for n in items:
+                name = self.wire(n, "position name")
+                if name in names:
+                    self.fail(n, f"position '{name}' is listed twice")
+                names.append(name)
+            if len(names) < 2:
+                self.fail(node, f"{what} needs at least two positions")
+            return names
+        if t == K.CONTACTS:
+            return self.read_contacts(node, what)
+        if t == K.RATING:
+            return self.read_rating(node, what)
+        if t == K.POWER_RATING:
+            return self.read_power_rating(node, what)
+        self.fail(node, f"{what}: field type '{t}' is not known to this ctllint")
+
+    def read_contacts(self, node: Node, what: str) -> ContactCount:
+        entries = self.mapping(node, what)
+        keys = {k: vn for k, _, vn in entries}
+        for key, kn, _ in entries:
+            if key not in ("NO", "NC", "poles", "throw"):
+                self.unknown_key(kn, key, what, ("NO", "NC", "poles", "throw"))
+                raise _Stop
+        def count(vn: Node, name: str) -> int:
+            v = self.scalar(vn, name)
+            if isinstance(v, bool) or not isinstance(v, int) or v < 0:
+                self.fail(vn, f"{name} must be a whole number of contacts, not '{vn.value}'")
+            return v
+        if "poles" in keys or "throw" in keys:
+            if "NO" in keys or "NC" in keys:
+                self.fail(node, f"{what}: give either NO/NC counts or poles/throw, not both")
+            if "poles" not in keys:
+                self.fail(node, f"{what}: 'throw' needs 'poles'")
+            poles = count(keys["poles"], "poles")
+            throw = self.text(keys["throw"], "throw", ("single", "double")) if "throw" in keys else "single"
+            return ContactCount(no=0 if throw == "double" else poles, nc=0, changeover=poles if throw == "double" else 0)
+        return ContactCount(no=count(keys["NO"], "NO") if "NO" in keys else 0, nc=count(keys["NC"], "NC") if "NC" in keys else 0)
+
+    def read_category(self, node: Node, what: str, power: bool = False) -> CategoryRating:
+        entries = self.mapping(node, what)
+        keys = {k: vn for k, _, vn in entries}
+        for key, kn, _ in entries:
+            if key not in ("category", "current", "voltage"):
+                self.unknown_key(kn, key, what, ("category", "current", "voltage"))
+                raise _Stop
+        for req in ("category", "current", "voltage"):
+            if req not in keys:
+                self.fail(node, f"{what} needs '{req}'")
+        cat = self.text(keys["category"], "category")
+        if not CATEGORY_RE.match(cat):
+            self.fail(keys["category"], f"category '{cat}' is not a utilisation category such as AC-15, DC-13, AC-3 or AC-1")
+        cur = self.quantity(keys["current"], K.CURRENT, "current")
+        volt = self.quantity(keys["voltage"], K.VOLTAGE, "voltage")
+        return CategoryRating(cat, cur.value, volt.value, cat[:2])
+
+    def read_rating(self, node: Node, what: str) -> ContactRating:
+        if isinstance(node, SequenceNode):
+            cats = tuple(self.read_category(n, what) for n in node.value)
+            if not cats:
+                self.fail(node, f"{what} is an empty list")
+            return ContactRating("category", categories=cats, text=", ".join(f"{c.category} {c.current:g} A {c.voltage:g} V" for c in cats))
+        value = self.scalar(node, what)
+        if isinstance(value, str) and value.strip() in PILOT_DUTY_VALID:
+            return ContactRating("pilot-duty", designation=value.strip(), text=value.strip())
+        if isinstance(value, str) and PILOT_DUTY.match(value.strip()):
+            self.fail(node, f"{what}: '{value}' is not a NEMA ICS 5 pilot-duty designation")
+        try:
+            q = parse_quantity(value, K.CURRENT)
+        except QuantityError as exc:
+            self.fail(node, f"{what}: expected a pilot-duty designation (A600 ... R150), a list of category ratings, or a current: {exc}")
+        return ContactRating("thermal", current=q.value, text=q.text)
+
+    def read_power_rating(self, node: Node, what: str) -> PowerRating:
+        if isinstance(node, SequenceNode):
+            cats = tuple(self.read_category(n, what) for n in node.value)
+            if not cats:
+                self.fail(node, f"{what} is an empty list")
+            return PowerRating(categories=cats)
+        entries = self.mapping(node, what)
+        keys = {k: vn for k, _, vn in entries}
+        for key, kn, _ in entries:
+            if key != "size":
+                self.unknown_key(kn, key, what, ("size",))
+                raise _Stop
+        if "size" not in keys:
+            self.fail(node, f"{what}: give a list of category ratings or {{size: N}}")
+        size = self.scalar(keys["size"], "size")
+        size = str(size) if isinstance(size, int) and not isinstance(size, bool) else size
+        if size not in NEMA_SIZES:
+            self.fail(keys["size"], f"NEMA size '{keys['size'].value}' is not one of {', '.join(NEMA_SIZES)} (write size 00 as \"00\")")
+        return PowerRating(nema_size=size)
+
+    # -- use -------------------------------------------------------------
+    def read_use(self, node: Node, sch: Schematic) -> None:
+        items = [node] if isinstance(node, ScalarNode) else self.sequence(node, "use")
+        here = os.path.dirname(os.path.abspath(self.real_path))
+        root = os.path.realpath(find_repository_root(self.real_path))
+        for item in items:
+            try:
+                rel = self.text(item, "use entry")
+            except _Stop:
+                continue
+            if os.path.isabs(rel):
+                self.error(item, f"use path '{rel}' must be relative to this file")
+                continue
+            if not rel.endswith(SCHEMATIC_SUFFIXES):
+                self.error(item, f"use path '{rel}' must name a *.ctl.yaml device file")
+                continue
+            target = os.path.normpath(os.path.join(here, rel))
+            real = os.path.realpath(target)
+            if os.path.commonpath([root, real]) != root:
+                self.error(item, f"use path '{rel}' leaves the repository ({root})")
+                continue
+            if not os.path.isfile(real):
+                self.error(item, f"use path '{rel}' does not exist" if not os.path.exists(target) else f"use path '{rel}' is not a readable file")
+                continue
+            shown = _display_path(self.path, rel)
+            loader = lambda: load_file(real, self.kinds, self.limits, None, display_path=shown)  # noqa: E731
+            result = self.cache.get(real, loader) if self.cache else loader()
+            self.used.append(real)
+            if result.schematic is None:
+                first = result.diagnostics[0] if result.diagnostics else None
+                detail = f": {first.line}:{first.column}: {first.message}" if first else ""
+                self.error(item, f"used file '{rel}' does not load{detail}")
+                continue
+            used = result.schematic
+            if not used.device_file:
+                self.error(item, f"used file '{rel}' must hold only 'ctllint' and 'devices' (it has supplies or rungs)")
+                continue
+            sch.uses.append(real)
+            for tag, dev in used.devices.items():
+                if tag in sch.devices:
+                    mine = sch.devices[tag]
+                    if mine.origin == self.path:
+                        self.error(mine.loc, f"device {tag} is also defined in {shown} line {dev.loc.line}")
+                    else:
+                        self.error(item, f"device {tag} is defined both in {mine.origin} line {mine.loc.line} and in {shown} line {dev.loc.line}")
+                    continue
+                sch.devices[tag] = dev
+
+    # -- supplies ------------------------------------------------------
+    def read_supplies(self, node: Node, sch: Schematic) -> None:
+        rails: dict[str, tuple[str, Location]] = {}
+        for name, knode, vnode in self.mapping(node, "supplies"):
+            try:
+                entries = self.mapping(vnode, f"supply {name}")
+            except _Stop:
+                continue
+            keys = {k: (kn, vn) for k, kn, vn in entries}
+            ok = True
+            for key, kn, _ in entries:
+                if key not in SUPPLY_KEYS:
+                    self.unknown_key(kn, key, f"supply {name}", SUPPLY_KEYS)
+                    ok = False
+            for req in ("hot", "common", "voltage"):
+                if req not in keys:
+                    self.error(knode, f"supply {name} needs '{req}'")
+                    ok = False
+            if not ok:
+                continue
+            try:
+                hot = self.wire(keys["hot"][1], f"hot rail of {name}")
+                common = self.wire(keys["common"][1], f"common rail of {name}")
+                voltage = self.quantity(keys["voltage"][1], K.VOLTAGE, f"voltage of supply {name}")
+                grounded = self.boolean(keys["grounded"][1], "grounded") if "grounded" in keys else True
+                source = self.tag(keys["source"][1], "source") if "source" in keys else None
+            except _Stop:
+                continue
+            if hot == common:
+                self.error(keys["common"][1], f"supply {name}: hot and common are the same wire '{hot}'")
+                continue
+            sup = Supply(name=name, hot=hot, common=common, voltage=voltage, loc=self.loc(knode), grounded=grounded, source=source)
+            for key, (_, vn) in keys.items():
+                sup.field_locs[key] = self.loc(vn)
+            clash = False
+            for rail, key in ((hot, "hot"), (common, "common")):
+                if rail in rails:
+                    other, where = rails[rail]
+                    self.error(keys[key][1], f"rail '{rail}' of supply {name} is already a rail of supply {other} (line {where.line})")
+                    clash = True
+                else:
+                    rails[rail] = (name, self.loc(keys[key][1]))
+            if not clash:
+                sch.supplies[name] = sup
+
+    # -- rungs ---------------------------------------------------------
+    def read_rungs(self, node: Node, sch: Schematic) -> None:
+        if isinstance(node, ScalarNode) and scalar_value(node) is None:
+            return
+        numbers: dict[int, Location] = {}
+        counter = 0
+        for i, rnode in enumerate(self.sequence(node, "rungs")):
+            try:
+                entries = self.mapping(rnode, f"rung {i + 1}")
+            except _Stop:
+                continue
+            keys = {k: (kn, vn) for k, kn, vn in entries}
+            rung = Rung(index=i, number=i + 1, loc=self.loc(rnode))
+            for key, kn, vn in entries:
+                if key not in RUNG_KEYS:
+                    self.unknown_key(kn, key, f"rung {i + 1}", RUNG_KEYS)
+                    continue
+                try:
+                    if key == "title":
+                        rung.title = self.text(vn, "rung title")
+                    elif key == "note":
+                        rung.note = self.text(vn, "rung note")
+                    elif key == "jog":
+                        rung.jog = self.boolean(vn, "jog")
+                    elif key == "restart":
+                        rung.restart = self.text(vn, "restart", ("automatic",))
+                    elif key == "number":
+                        num = self.scalar(vn, "rung number")
+                        if isinstance(num, bool) or not isinstance(num, int) or num < 0:
+                            self.fail(vn, f"rung number must be a whole number, not '{vn.value}'")
+                        rung.number = num
+                except _Stop:
+                    pass
+            if rung.number in numbers:
+                where = keys["number"][1] if "number" in keys else rnode
+                self.error(where, f"rung number {rung.number} is already used by the rung at line {numbers[rung.number].line}")
+            numbers[rung.number] = rung.loc
+            if "paths" not in keys:
+                self.error(rnode, f"rung {rung.number} has no 'paths'")
+            else:
+                try:
+                    for pnode in self.sequence(keys["paths"][1], "paths"):
+                        try:
+                            path, counter = self.read_path(pnode, rung, counter)
+                            rung.paths.append(path)
+                        except _Stop:
+                            pass
+                except _Stop:
+                    pass
+                if not rung.paths and not any(e.path == self.path and e.line >= rung.loc.line for e in self.errors):
+                    self.error(keys["paths"][1], f"rung {rung.number} has no paths")
+            sch.rungs.append(rung)
+            if counter > self.limits.max_elements:
+                self.fail(rnode, f"more than {self.limits.max_elements} elements; limit max_elements")
+
+    def read_path(self, node: Node, rung: Rung, counter: int) -> tuple[Path, int]:
+        items = self.sequence(node, "a path")
+        if len(items) < 3 or len(items) % 2 == 0:
+            self.fail(node, "a path alternates wires and elements, beginning and ending with a wire: [wire, element, wire, ...]")
+        wires: list[str] = []
+        wire_locs: list[Location] = []
+        refs: list[tuple[str, str | None, str, Node]] = []
+        ok = True
+        for j, item in enumerate(items):
+            try:
+                if j % 2 == 0:
+                    wires.append(self.wire(item))
+                    wire_locs.append(self.loc(item))
+                else:
+                    value = self.scalar(item, "an element")
+                    if not isinstance(value, str):
+                        self.fail(item, f"'{item.value}' stands where an element belongs: expected TAG or TAG.PART between two wires")
+                    m = REF_RE.match(value)
+                    if not m:
+                        self.fail(item, f"'{value}' is not an element reference (TAG or TAG.PART)")
+                    refs.append((m.group("tag"), m.group("part"), value, item))
+            except _Stop:
+                ok = False
+        if not ok:
+            raise _Stop
+        elements = []
+        for j, (tag, part, text, item) in enumerate(refs):
+            elements.append(Element(index=counter, tag=tag, part=part, text=text, loc=self.loc(item), rung=rung.index, left=wires[j], right=wires[j + 1]))
+            counter += 1
+        return Path(wires=wires, wire_locs=wire_locs, elements=elements, loc=self.loc(node)), counter
+
+    # -- expect ----------------------------------------------------------
+    def read_expect(self, node: Node, sch: Schematic) -> None:
+        names: set[str] = set()
+        for snode in self.sequence(node, "expect"):
+            try:
+                entries = self.mapping(snode, "a scenario")
+            except _Stop:
+                continue
+            keys = {k: (kn, vn) for k, kn, vn in entries}
+            for key, kn, _ in entries:
+                if key not in ("name", "steps"):
+                    self.unknown_key(kn, key, "a scenario", ("name", "steps"))
+            if "name" not in keys or "steps" not in keys:
+                self.error(snode, "a scenario needs 'name' and 'steps'")
+                continue
+            try:
+                name = self.text(keys["name"][1], "scenario name")
+            except _Stop:
+                continue
+            if name in names:
+                self.error(keys["name"][1], f"scenario name '{name}' is used twice")
+            names.add(name)
+            scen = Scenario(name=name, loc=self.loc(snode))
+            try:
+                for stnode in self.sequence(keys["steps"][1], "steps"):
+                    try:
+                        scen.steps.append(self.read_step(stnode))
+                    except _Stop:
+                        pass
+            except _Stop:
+                pass
+            sch.expect.append(scen)
+
+    def read_step(self, node: Node) -> Step:
+        entries = self.mapping(node, "a step")
+        if len(entries) != 1:
+            self.fail(node, f"a step has exactly one action ({', '.join(STEP_ACTIONS)})")
+        action, knode, vnode = entries[0]
+        if action not in STEP_ACTIONS:
+            self.unknown_key(knode, action, "a step", STEP_ACTIONS)
+            raise _Stop
+        step = Step(action=action, loc=self.loc(knode))
+        if action in ("press", "release", "trip", "reset"):
+            tnodes = vnode.value if isinstance(vnode, SequenceNode) else [vnode]
+            if not tnodes:
+                self.fail(vnode, f"{action} names no device")
+            for tn in tnodes:
+                t = self.tag(tn, f"{action} target")
+                step.targets[t] = None
+                step.target_locs[t] = self.loc(tn)
+        elif action == "power":
+            value = self.text(vnode, "power", ("on", "off"))
+            step.targets[""] = value
+            step.target_locs[""] = self.loc(vnode)
+        elif action == "wait":
+            step.seconds = self.quantity(vnode, K.TIME, "wait").value
+        else:  # set, check
+            for t, kn, vn in self.mapping(vnode, action):
+                if not TAG_RE.match(t):
+                    self.fail(kn, f"'{t}' is not a device tag")
+                v = self.scalar(vn, f"{action} {t}")
+                if action == "check":
+                    if v not in ("on", "off"):
+                        self.fail(vn, f"check {t}: expected on or off, not '{vn.value}'")
+                    step.targets[t] = v == "on"
+                else:
+                    if isinstance(v, int) and not isinstance(v, bool):
+                        v = str(v)
+                    if not isinstance(v, str):
+                        self.fail(vn, f"set {t}: expected a position name or on/off, not '{vn.value}'")
+                    step.targets[t] = v
+                step.target_locs[t] = self.loc(kn)
+        return step
+
+    # -- cross-references that are format errors ----------------------
+    def check_device_references(self, sch: Schematic) -> None:
+        """Fill element roles; a field naming a device of the wrong kind is a format error."""
+        for dev in sch.devices.values():
+            if dev.origin != self.path:
+                continue
+            kind = self.kinds.get(dev.kind)
+            for name, spec in kind.fields.items():
+                if spec.type not in (K.TAG, K.TAGS) or not spec.tag_kinds or name not in dev.fields:
+                    continue
+                tags = dev.fields[name] if spec.type == K.TAGS else [dev.fields[name]]
+                for t in tags:
+                    other = sch.devices.get(t)
+                    if other is not None and other.kind not in spec.tag_kinds:
+                        self.error(dev.at(name), f"{name} of {dev.tag} names {t}, a {other.kind}; it must be a {' or '.join(spec.tag_kinds)}")
+        for sup in sch.supplies.values():
+            if sup.source and sup.source in sch.devices:
+                other = sch.devices[sup.source]
+                if other.kind not in ("transformer", "power-supply"):
+                    self.error(sup.at("source"), f"source of supply {sup.name} names {sup.source}, a {other.kind}; it must be a transformer or power-supply")
+        for el in sch.elements:
+            dev = sch.devices.get(el.tag)
+            if dev is None:
+                continue
+            kind = self.kinds.get(dev.kind)
+            role = kind.part_role(el.part)
+            if role is None and kind.positions and el.part in (dev.get("positions") or ()):
+                role = K.CONTACT
+            el.role = role or ""
+            el.inductive = bool(role == K.LOAD and kind.inductive)
+
+
+def _display_path(base: str, rel: str) -> str:
+    folder = os.path.dirname(base)
+    return os.path.normpath(os.path.join(folder, rel)) if folder else os.path.normpath(rel)
+
+
+def _describe(node: Node) -> str:
+    if isinstance(node, MappingNode):
+        return "a mapping"
+    if isinstance(node, SequenceNode):
+        return "a list"
+    return _describe_value(scalar_value(node)) + f" '{node.value}'"
+
+
+def _describe_value(value: Any) -> str:
+    if value is None:
+        return "empty"
+    if isinstance(value, bool):
+        return "true/false"
+    if isinstance(value, int):
+        return "a whole number"
+    if isinstance(value, float):
+        return "a number"
+    if isinstance(value, str):
+        return "text"
+    return type(value).__name__
+
+
+def _closest(word: str, options: tuple[str, ...]) -> str | None:
+    import difflib
+
+    found = difflib.get_close_matches(word, list(options), n=1, cutoff=0.75)
+    return found[0] if found else None

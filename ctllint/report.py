@@ -1,0 +1,161 @@
+"""Built-in output formats: text, json, sarif, junit.
+
+Registered through the ``ctllint_output_formats`` hook like a plugin's
+formats. Every format is deterministic: the same findings give the same
+bytes, whatever the order plugins loaded in.
+"""
+from __future__ import annotations
+
+import json
+import os
+import sys
+from typing import Iterable
+from xml.sax.saxutils import escape, quoteattr
+
+from . import __version__
+from .api import OutputFormat, Rule
+from .hookspecs import hookimpl
+from .model import Diagnostic, Severity
+
+SAFETY_NOTE = (
+    "ctllint checks design rules only. Control circuits can injure people: "
+    "have every change reviewed by a qualified person and follow local electrical codes, "
+    "the machine's risk assessment and licensed practice."
+)
+
+_COLOURS = {Severity.ERROR: "\033[31m", Severity.WARNING: "\033[33m", Severity.INFO: "\033[36m"}
+_BOLD, _DIM, _RESET = "\033[1m", "\033[2m", "\033[0m"
+
+
+def use_colour(stream=None) -> bool:
+    """Colour only on a terminal, never when NO_COLOR is set (https://no-color.org)."""
+    if os.environ.get("NO_COLOR"):
+        return False
+    stream = stream or sys.stdout
+    return bool(getattr(stream, "isatty", lambda: False)())
+
+
+def render_text(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule], colour: bool = False) -> str:
+    lines = []
+    for d in diagnostics:
+        if colour:
+            lines.append(f"{_BOLD}{d.path}:{d.line}:{d.column}:{_RESET} {_COLOURS[d.severity]}{d.severity}{_RESET}: {d.message} {_DIM}[{d.rule}]{_RESET}")
+        else:
+            lines.append(f"{d.path}:{d.line}:{d.column}: {d.severity}: {d.message} [{d.rule}]")
+    return "".join(line + "\n" for line in lines)
+
+
+def summary_line(diagnostics: list[Diagnostic], files: list[str]) -> str:
+    counts = {s: sum(1 for d in diagnostics if d.severity == s) for s in Severity}
+    parts = [f"{counts[Severity.ERROR]} error{'s' * (counts[Severity.ERROR] != 1)}",
+             f"{counts[Severity.WARNING]} warning{'s' * (counts[Severity.WARNING] != 1)}",
+             f"{counts[Severity.INFO]} info"]
+    n = len(files)
+    return f"{', '.join(parts)} in {n} file{'s' * (n != 1)}"
+
+
+def render_json(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule]) -> str:
+    doc = {"diagnostics": [d.as_dict() for d in diagnostics], "files": len(files)}
+    return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
+
+
+_SARIF_LEVEL = {Severity.ERROR: "error", Severity.WARNING: "warning", Severity.INFO: "note"}
+_CORE_RULE_DOCS = {
+    "format": ("The file breaks the schematic format (FORMAT.md).", Severity.ERROR),
+    "plugin-error": ("A rule plugin failed to import, raised, or ran past its time limit.", Severity.ERROR),
+    "suppression": ("An inline suppression is malformed, lacks a reason, or suppresses nothing.", Severity.WARNING),
+}
+
+
+def _uri(path: str) -> str:
+    p = path.replace(os.sep, "/")
+    return p[2:] if p.startswith("./") else p
+
+
+def render_sarif(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule]) -> str:
+    descriptors = []
+    index: dict[str, int] = {}
+    for name, (summary, sev) in sorted(_CORE_RULE_DOCS.items()):
+        index[name] = len(descriptors)
+        descriptors.append({
+            "id": name,
+            "shortDescription": {"text": summary},
+            "defaultConfiguration": {"level": _SARIF_LEVEL[sev]},
+            "properties": {"plugin": "core"},
+        })
+    for name in sorted(rules):
+        rule = rules[name]
+        index[name] = len(descriptors)
+        descriptors.append({
+            "id": name,
+            "shortDescription": {"text": rule.summary},
+            "fullDescription": {"text": rule.doc.strip()},
+            "help": {"text": f"{rule.doc.strip()}\n\nSource: {rule.source}\n\nRun `ctllint explain {name}` for examples and options."},
+            "defaultConfiguration": {"level": _SARIF_LEVEL[rule.severity]},
+            "properties": {"plugin": rule.plugin, "source": rule.source},
+        })
+    results = []
+    for d in diagnostics:
+        result = {
+            "ruleId": d.rule,
+            "level": _SARIF_LEVEL[d.severity],
+            "message": {"text": d.message},
+            "locations": [{
+                "physicalLocation": {
+                    "artifactLocation": {"uri": _uri(d.path)},
+                    "region": {"startLine": max(1, d.line), "startColumn": max(1, d.column)},
+                }
+            }],
+        }
+        if d.rule in index:
+            result["ruleIndex"] = index[d.rule]
+        results.append(result)
+    log = {
+        "$schema": "https://json.schemastore.org/sarif-2.1.0.json",
+        "version": "2.1.0",
+        "runs": [{
+            "tool": {"driver": {"name": "ctllint", "version": __version__, "semanticVersion": __version__.split("+")[0], "rules": descriptors}},
+            "artifacts": [{"location": {"uri": _uri(f)}} for f in sorted(files)],
+            "results": results,
+            "columnKind": "unicodeCodePoints",
+        }],
+    }
+    return json.dumps(log, indent=2, ensure_ascii=False) + "\n"
+
+
+def render_junit(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule]) -> str:
+    by_file: dict[str, list[Diagnostic]] = {f: [] for f in files}
+    for d in diagnostics:
+        by_file.setdefault(d.path, []).append(d)
+    failing = sum(1 for ds in by_file.values() if any(d.severity >= Severity.WARNING for d in ds))
+    out = ['<?xml version="1.0" encoding="UTF-8"?>',
+           f'<testsuites name="ctllint" tests="{len(by_file)}" failures="{failing}">',
+           f'  <testsuite name="ctllint" tests="{len(by_file)}" failures="{failing}" errors="0" skipped="0">']
+    for path in sorted(by_file):
+        ds = by_file[path]
+        out.append(f"    <testcase classname=\"ctllint\" name={quoteattr(path)}>")
+        for d in ds:
+            if d.severity == Severity.INFO:
+                continue
+            text = f"{d.path}:{d.line}:{d.column}: {d.severity}: {d.message} [{d.rule}]"
+            out.append(f"      <failure type={quoteattr(d.rule)} message={quoteattr(d.message)}>{escape(text)}</failure>")
+        infos = [d for d in ds if d.severity == Severity.INFO]
+        if infos:
+            out.append("      <system-out>" + escape("\n".join(f"{d.path}:{d.line}:{d.column}: info: {d.message} [{d.rule}]" for d in infos)) + "</system-out>")
+        out.append("    </testcase>")
+    out.append("  </testsuite>")
+    out.append("</testsuites>")
+    return "\n".join(out) + "\n"
+
+
+FORMATS = [
+    OutputFormat("text", render_text, "one line per finding: path:line:column: severity: message [rule]"),
+    OutputFormat("json", render_json, "one JSON object: diagnostics and the number of files"),
+    OutputFormat("sarif", render_sarif, "SARIF 2.1.0 log for code-scanning tools"),
+    OutputFormat("junit", render_junit, "JUnit XML: a test case per schematic, a failure per finding"),
+]
+
+
+@hookimpl
+def ctllint_output_formats() -> Iterable[OutputFormat]:
+    return FORMATS
