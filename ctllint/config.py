@@ -144,7 +144,7 @@ def _read_yaml(path: str) -> tuple[dict[str, Any], dict[str, int]]:
 
 
 def _plain(node: Any, prefix: str, lines: dict[str, int], path: str) -> Any:
-    from ruamel.yaml.nodes import MappingNode, SequenceNode
+    from .yamlsafe import MappingNode, SequenceNode
 
     if isinstance(node, MappingNode):
         out = {}

@@ -13,7 +13,7 @@ import re
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
-from ruamel.yaml.nodes import MappingNode, Node, ScalarNode, SequenceNode
+
 
 from . import kinds as K
 from .kinds import DeviceKind, KindRegistry
@@ -35,7 +35,7 @@ from .model import (
     Supply,
 )
 from .quantities import QuantityError, parse_quantity
-from .yamlsafe import Limits, YamlProblem, check_tree, compose, pos, scalar_value
+from .yamlsafe import STD, Limits, MappingNode, Node, ScalarNode, SequenceNode, YamlProblem, check_tree, compose, pos, scalar_value, within
 
 FORMAT_VERSION = 1
 SCHEMATIC_SUFFIXES = (".ctl.yaml", ".ctl.yml")
@@ -167,10 +167,14 @@ class _Loader:
         self.cache = cache
         self.errors: list[Diagnostic] = []
         self.used: list[str] = []
+        self.lines: list[str] = []
+        self.line_count = 0
 
     # -- helpers -------------------------------------------------------
     def loc(self, node: Node) -> Location:
-        line, col = pos(node)
+        line, col = node.line, node.column
+        if line > self.line_count:  # an empty value at the very end of the file
+            line, col = within(self.lines, line, col)
         return Location(self.path, line, col)
 
     def error(self, node: Node | Location, message: str) -> None:
@@ -249,13 +253,15 @@ class _Loader:
 
     # -- the file ------------------------------------------------------
     def load(self, text: str) -> LoadResult:
+        self.lines = text.splitlines()
+        self.line_count = len(self.lines)
         try:
             root = compose(text, self.limits)
-            if root is None:
+            if root is None or (isinstance(root, ScalarNode) and str(root.tag) == STD + "null" and not root.value):
                 return self._done(None, [format_error(self.path, 1, 1, "file is empty: a schematic needs ctllint, supplies, devices and rungs")])
             check_tree(root, self.limits)
         except YamlProblem as exc:
-            return self._done(None, [format_error(self.path, exc.line, exc.column, exc.message)])
+            return self._done(None, [format_error(self.path, *within(self.lines, exc.line, exc.column), exc.message)])
         sch = Schematic(path=self.path, loc=self.loc(root), text_lines=text.splitlines())
         try:
             self.read_top(root, sch)

@@ -99,7 +99,7 @@ def test_yaml_1_2_booleans_on_off_yes_no_are_strings():
     ("ctllint: 1\nsupplies: {}\ndevices: {}\nrungs:\n  - paths:\n      - [L1, PB1.NC]\n", (6, 9), "alternates wires and elements"),
     ("ctllint: 1\nsupplies: {}\ndevices: {}\nrungs:\n  - paths:\n      - [L1, 7, X2]\n", (6, 14), "element belongs"),
     ("ctllint: 1\nsupplies: {}\ndevices:\n  a: !!python/object/apply:os.system [echo]\nrungs: []\n", (4, 6), "not allowed"),
-    ("ctllint: 1\nsupplies: {}\ndevices: {}\nrungs: [\n", (5, 1), "YAML"),
+    ("ctllint: 1\nsupplies: {}\ndevices: {}\nrungs: [\n", (4, 9), "YAML"),
     ("", (1, 1), "empty"),
     ("ctllint: 1\nsupplies:\n  a: {hot: L1, common: X2, voltage: 120 VAC}\n  b: {hot: L1, common: X3, voltage: 24 VDC}\ndevices: {}\nrungs: []\n", (4, 12), "already a rail"),
     ("ctllint: 1\nsupplies: {}\ndevices:\n  C1: {kind: relay, rating: A700}\nrungs: []\n", (4, 29), "pilot-duty"),

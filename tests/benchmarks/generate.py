@@ -1,0 +1,89 @@
+"""Generators of large schematics for the benchmarks (and for tests of scale).
+
+``motor_circuits(n)``: n everyday motor circuits, each a three-wire
+start/stop with seal-in and overload, a running light, an interposing
+relay driven by a PLC output, and a solenoid worked by that relay. The
+result obeys every rule, so a check does all its work and reports nothing.
+
+``lattice(n)``: one rung whose contacts form a ladder lattice of n
+sections with cross-links between the two strings; the number of simple
+paths grows exponentially with n while the file grows linearly.
+"""
+from __future__ import annotations
+
+import sys
+
+
+def motor_circuits(n: int, title: str = "Generated line") -> str:
+    out = [
+        "ctllint: 1",
+        f"title: {title}, {n} motor circuits",
+        "supplies:",
+        "  ctl: {hot: L1, common: X2, voltage: 120 VAC}",
+        "  dc: {hot: '+24', common: 0V, voltage: 24 VDC}",
+        "devices:",
+    ]
+    for i in range(1, n + 1):
+        out += [
+            f"  PB{i}A: {{kind: pushbutton, function: stop, rating: A600}}",
+            f"  PB{i}B: {{kind: pushbutton, function: start, rating: A600}}",
+            f"  M{i}: {{kind: starter, coil: 120 VAC, inrush: 120 VA, sealed: 12 VA, overload: OL{i}, feeds: MTR{i}, rating: A600, power_rating: {{size: 1}}}}",
+            f"  OL{i}: {{kind: overload, setting: 4.4 A}}",
+            f"  MTR{i}: {{kind: motor, power: 3 hp, voltage: 460 V, phases: 3, service_factor: 1.15}}",
+            f"  PL{i}: {{kind: pilot-light, voltage: 120 VAC, power: 1 W}}",
+            f"  Q{i}: {{kind: plc-output, output: transistor, voltage: 24 VDC, rating: 0.5 A}}",
+            f"  CR{i}: {{kind: relay, coil: 24 VDC, coil_power: 1.2 W, suppressed: true, rating: A600}}",
+            f"  SOL{i}: {{kind: solenoid, voltage: 120 VAC, inrush: 60 VA, sealed: 20 VA}}",
+        ]
+    out.append("rungs:")
+    for i in range(1, n + 1):
+        w = i * 10
+        out += [
+            f"  - title: Motor {i}",
+            "    paths:",
+            f"      - [L1, PB{i}A.NC, {w + 1}, PB{i}B.NO, {w + 2}, M{i}.coil, {w + 3}, OL{i}.NC, X2]",
+            f"      - [{w + 1}, M{i}.NO, {w + 2}]",
+            f"  - title: Motor {i} running",
+            "    paths:",
+            f"      - [L1, M{i}.NO, {w + 4}, PL{i}, X2]",
+            f"  - title: Valve {i} interposing relay",
+            "    paths:",
+            f"      - ['+24', Q{i}, {w + 5}, CR{i}.coil, 0V]",
+            f"  - title: Valve {i}",
+            "    paths:",
+            f"      - [L1, CR{i}.NO, {w + 6}, SOL{i}, X2]",
+        ]
+    return "\n".join(out) + "\n"
+
+
+def lattice(n: int) -> str:
+    """Two strings of n contacts from L1 to the coil, cross-linked at every section."""
+    out = [
+        "ctllint: 1",
+        f"title: Lattice of {n} sections",
+        "supplies:",
+        "  ctl: {hot: L1, common: X2, voltage: 120 VAC}",
+        "devices:",
+        "  CR0: {kind: relay, coil: 120 VAC}",
+        "  PB0: {kind: pushbutton, function: stop}",
+    ]
+    for i in range(1, n + 1):
+        out.append(f"  LS{i}: {{kind: limit-switch}}")
+    out += ["rungs:", "  - title: Lattice", "    paths:"]
+    paths = []
+    prev_a, prev_b = "L1", "L1"
+    for i in range(1, n + 1):
+        a, b = f"a{i}", f"b{i}"
+        paths.append(f"      - [{prev_a}, LS{i}.NO, {a}]")
+        paths.append(f"      - [{prev_b}, LS{i}.NC, {b}]")
+        paths.append(f"      - [{a}, LS{i}.NO, {b}]")
+        prev_a, prev_b = a, b
+    paths.append(f"      - [{prev_a}, PB0.NC, c, CR0.coil, X2]")
+    paths.append(f"      - [{prev_b}, CR0.NO, c]")
+    out += paths
+    return "\n".join(out) + "\n"
+
+
+if __name__ == "__main__":
+    kind, count = sys.argv[1], int(sys.argv[2])
+    sys.stdout.write(motor_circuits(count) if kind == "motors" else lattice(count))

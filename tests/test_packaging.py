@@ -1,0 +1,77 @@
+"""Packaging: a regular (wheel) install and the editable install both carry the plugins.
+
+The built-in plugins folder installs as ``ctllint_plugins``; no top-level
+module named ``plugins`` may reach anyone's path.
+"""
+import importlib.metadata
+import os
+import subprocess
+import sys
+import zipfile
+
+import pytest
+
+ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+BUILTIN = {"wiring", "motor-control", "ratings", "behaviour"}
+
+
+def test_editable_install_exposes_entry_points():
+    eps = {ep.name: ep.value for ep in importlib.metadata.entry_points(group="ctllint")}
+    assert BUILTIN <= set(eps)
+    assert all(eps[name].startswith("ctllint_plugins.") for name in BUILTIN)
+    import ctllint_plugins
+
+    assert os.path.samefile(os.path.dirname(ctllint_plugins.__file__), os.path.join(ROOT, "plugins"))
+
+
+@pytest.fixture(scope="module")
+def wheel(tmp_path_factory):
+    out = tmp_path_factory.mktemp("wheel")
+    proc = subprocess.run([sys.executable, "-m", "pip", "wheel", "--no-deps", "--no-build-isolation", "-q", "-w", str(out), ROOT],
+                          capture_output=True, text=True)
+    if proc.returncode != 0:
+        pytest.fail(f"pip wheel failed:\n{proc.stdout}\n{proc.stderr}")
+    wheels = [f for f in os.listdir(out) if f.endswith(".whl")]
+    assert len(wheels) == 1
+    return os.path.join(out, wheels[0])
+
+
+def test_wheel_holds_every_plugin_and_no_bare_plugins_package(wheel):
+    names = zipfile.ZipFile(wheel).namelist()
+    tops = {n.split("/")[0] for n in names}
+    assert "plugins" not in tops
+    for module in ("wiring", "motor_control", "ratings", "behaviour", "__init__"):
+        assert f"ctllint_plugins/{module}.py" in names
+    assert "ctllint/commands/__init__.py" in names
+    assert not any(n.startswith("ctllint_plugins/site-example") or "site_example" in n for n in names)
+
+
+def test_regular_install_runs_every_builtin_rule(wheel, tmp_path):
+    target = tmp_path / "site"
+    proc = subprocess.run([sys.executable, "-m", "pip", "install", "--no-deps", "-q", "--target", str(target), wheel], capture_output=True, text=True)
+    assert proc.returncode == 0, proc.stderr
+    code = ("import ctllint, ctllint_plugins, json; from ctllint.host import PluginHost; h = PluginHost.create(); "
+            "print(json.dumps({'core': ctllint.__file__, 'plugins': ctllint_plugins.__file__, "
+            "'rules': sorted({r.plugin for r in h.rules.values()}), 'problems': [p.message for p in h.problems]}))")
+    env = dict(os.environ, PYTHONPATH=str(target))
+    proc = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env, cwd=str(tmp_path))
+    assert proc.returncode == 0, proc.stderr
+    import json
+
+    info = json.loads(proc.stdout)
+    assert info["core"].startswith(str(target)) and info["plugins"].startswith(str(target))
+    assert BUILTIN <= set(info["rules"]) and not info["problems"]
+
+
+def test_site_example_installs_with_its_entry_point(tmp_path):
+    """The example site plugin installs as its own package and registers through the same group."""
+    target = tmp_path / "site"
+    proc = subprocess.run([sys.executable, "-m", "pip", "install", "--no-deps", "--no-build-isolation", "-q", "--target", str(target),
+                           os.path.join(ROOT, "plugins", "site-example")], capture_output=True, text=True)
+    assert proc.returncode == 0, proc.stderr
+    env = dict(os.environ, PYTHONPATH=str(target))
+    proc = subprocess.run([sys.executable, "-m", "ctllint", "rules"], capture_output=True, text=True, env=env, cwd=str(tmp_path))
+    assert proc.returncode == 0, proc.stderr
+    lines = [line.split() for line in proc.stdout.splitlines()]
+    assert ["site-wire-numbers", "site-example", "warning"] == lines[[l[0] for l in lines].index("site-wire-numbers")][:3]
+    assert any(l[0] == "site-tag-prefix" for l in lines)
