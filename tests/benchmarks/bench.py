@@ -1,0 +1,127 @@
+"""Benchmarks of the issue "Fast enough for every commit on large panels".
+
+Run: python tests/benchmarks/bench.py [--quick]
+
+Prints a table: each goal is a ratio of two timings taken in the same run
+(best of several repeats), so it holds on a noisy machine. This is not a
+test: it never fails a build, it reports.
+"""
+from __future__ import annotations
+
+import argparse
+import os
+import resource
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+
+HERE = os.path.dirname(os.path.abspath(__file__))
+sys.path.insert(0, HERE)
+from generate import lattice, motor_circuits  # noqa: E402
+
+PY = sys.executable
+
+
+def best(cmd: list[str], repeats: int, env: dict | None = None, cwd: str | None = None) -> float:
+    times = []
+    for _ in range(repeats):
+        t = time.perf_counter()
+        proc = subprocess.run(cmd, capture_output=True, env=env, cwd=cwd)
+        times.append(time.perf_counter() - t)
+        if proc.returncode not in (0, 1):
+            raise SystemExit(f"{' '.join(cmd)} exited {proc.returncode}:\n{proc.stderr.decode()[-2000:]}")
+    return min(times)
+
+
+def ctllint(*args: str) -> list[str]:
+    return [PY, "-m", "ctllint", *args]
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__)
+    parser.add_argument("--quick", action="store_true", help="fewer repeats and smaller parallel set")
+    parser.add_argument("--repeats", type=int, default=None)
+    args = parser.parse_args()
+    repeats = args.repeats or (2 if args.quick else 3)
+    tmp = tempfile.mkdtemp(prefix="ctllint-bench-")
+    env = dict(os.environ, NO_COLOR="1", XDG_CACHE_HOME=os.path.join(tmp, "cache"))
+    nocache = dict(env, CTLLINT_NO_CACHE="1")
+    rows: list[tuple[str, str, str, str]] = []
+
+    def write(name: str, text: str) -> str:
+        path = os.path.join(tmp, name)
+        with open(path, "w", encoding="utf-8") as handle:
+            handle.write(text)
+        return path
+
+    big = write("m1000.ctl.yaml", motor_circuits(1000))
+    small = write("m100.ctl.yaml", motor_circuits(100))
+    one = write("one.ctl.yaml", motor_circuits(1))
+    lat_small = write("lat200.ctl.yaml", lattice(200))
+    lat_big = write("lat2000.ctl.yaml", lattice(2000))
+    size = os.path.getsize(big)
+
+    # Start-up: a one-rung file against importing the three libraries.
+    t_import = best([PY, "-c", "import networkx, pluggy, ruamel.yaml"], repeats * 2)
+    t_one = best(ctllint("check", "--no-cache", "-j", "1", one), repeats * 2, env=nocache)
+    rows.append(("start-up: check 1 circuit / import libraries", f"{t_one:.3f} s / {t_import:.3f} s", f"{t_one / t_import:.2f}", "<= 1.30"))
+
+    # Parse-bound: cold check of the 1,000-circuit file against composing it with ruamel.yaml's C parser.
+    compose = [PY, "-c", "import sys; from ruamel.yaml import YAML; YAML(typ='safe', pure=False).compose(open(sys.argv[1], encoding='utf-8').read())", big]
+    t_compose = best(compose, repeats)
+    t_big = best(ctllint("check", "--no-cache", "-j", "1", big), repeats, env=nocache)
+    rows.append((f"parse-bound: check / compose, 1,000 circuits ({size / 1e6:.2f} MB)", f"{t_big:.3f} s / {t_compose:.3f} s", f"{t_big / t_compose:.2f}", "<= 1.30"))
+
+    # Linear: 10x circuits, start-up subtracted.
+    t_small = best(ctllint("check", "--no-cache", "-j", "1", small), repeats, env=nocache)
+    ratio = (t_big - t_one) / max(1e-9, t_small - t_one)
+    rows.append(("linear: 1,000 / 100 circuits (start-up subtracted)", f"{t_big - t_one:.3f} s / {t_small - t_one:.3f} s", f"{ratio:.2f}", "<= 11"))
+    t_ls = best(ctllint("check", "--no-cache", "-j", "1", lat_small), repeats, env=nocache)
+    t_lb = best(ctllint("check", "--no-cache", "-j", "1", lat_big), repeats, env=nocache)
+    ratio = (t_lb - t_one) / max(1e-9, t_ls - t_one)
+    rows.append(("linear: lattice 2,000 / 200 sections (start-up subtracted)", f"{t_lb - t_one:.3f} s / {t_ls - t_one:.3f} s", f"{ratio:.2f}", "<= 12"))
+
+    # Cache: a second run over the unchanged file.
+    shutil.rmtree(os.path.join(tmp, "cache"), ignore_errors=True)
+    t_cold = best(ctllint("check", "-j", "1", big), 1, env=env)
+    t_warm = best(ctllint("check", "-j", "1", big), repeats, env=env)
+    rows.append(("cache: warm / cold run, 1,000 circuits", f"{t_warm:.3f} s / {t_cold:.3f} s", f"{t_warm / t_cold:.2f}", "<= 0.15"))
+
+    # Parallel: 200 files of 50 circuits, 2 jobs against 1.
+    folder = os.path.join(tmp, "many")
+    os.makedirs(folder)
+    count = 60 if args.quick else 200
+    text = motor_circuits(50)
+    for i in range(count):
+        with open(os.path.join(folder, f"panel{i:03d}.ctl.yaml"), "w", encoding="utf-8") as handle:
+            handle.write(text.replace("Generated line", f"Panel {i}"))
+    t_j1 = best(ctllint("check", "--no-cache", "-j", "1", folder), max(1, repeats - 1), env=nocache)
+    t_j2 = best(ctllint("check", "--no-cache", "-j", "2", folder), max(1, repeats - 1), env=nocache)
+    rows.append((f"parallel: {count} files x 50 circuits, 2 jobs / 1 job", f"{t_j2:.3f} s / {t_j1:.3f} s", f"{t_j2 / t_j1:.2f}", "<= 0.65"))
+
+    # Memory: peak resident set of a cold check of the big file, and the growth over a bare start-up.
+    probe = ("import resource, sys, runpy; sys.argv = ['ctllint'] + sys.argv[1:]; "
+             "from ctllint.cli import main; code = main(sys.argv[1:]); "
+             "print(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss)")
+    def peak(path: str) -> int:
+        out = subprocess.run([PY, "-c", probe, "check", "--no-cache", "-j", "1", "--format", "json", "-o", os.devnull, path],
+                             capture_output=True, text=True, env=nocache)
+        return int(out.stdout.strip().splitlines()[-1]) * 1024
+    base, full = peak(one), peak(big)
+    rows.append(("memory: peak RSS growth over start-up / file size", f"{(full - base) / 1e6:.1f} MB / {size / 1e6:.2f} MB", f"{(full - base) / size:.1f}", "<= 20"))
+    rows.append(("memory: whole-process peak RSS (for reference)", f"{full / 1e6:.1f} MB", "", ""))
+
+    widths = [max(len(r[i]) for r in rows + [("goal", "measured", "ratio", "target")]) for i in range(4)]
+    header = ("goal", "measured", "ratio", "target")
+    print(f"ctllint benchmarks, {os.cpu_count()} cores, Python {sys.version.split()[0]}")
+    print("  ".join(h.ljust(w) for h, w in zip(header, widths)))
+    print("  ".join("-" * w for w in widths))
+    for r in rows:
+        print("  ".join(c.ljust(w) for c, w in zip(r, widths)))
+    shutil.rmtree(tmp, ignore_errors=True)
+
+
+if __name__ == "__main__":
+    main()
