@@ -27,7 +27,7 @@ def test_editable_install_exposes_entry_points():
 @pytest.fixture(scope="module")
 def wheel(tmp_path_factory):
     out = tmp_path_factory.mktemp("wheel")
-    proc = subprocess.run([sys.executable, "-m", "pip", "wheel", "--no-deps", "--no-build-isolation", "-q", "-w", str(out), ROOT],
+    proc = subprocess.run([sys.executable, "-m", "pip", "wheel", "--no-deps", "-q", "-w", str(out), ROOT],
                           capture_output=True, text=True)
     if proc.returncode != 0:
         pytest.fail(f"pip wheel failed:\n{proc.stdout}\n{proc.stderr}")
@@ -66,7 +66,7 @@ def test_regular_install_runs_every_builtin_rule(wheel, tmp_path):
 def test_site_example_installs_with_its_entry_point(tmp_path):
     """The example site plugin installs as its own package and registers through the same group."""
     target = tmp_path / "site"
-    proc = subprocess.run([sys.executable, "-m", "pip", "install", "--no-deps", "--no-build-isolation", "-q", "--target", str(target),
+    proc = subprocess.run([sys.executable, "-m", "pip", "install", "--no-deps", "-q", "--target", str(target),
                            os.path.join(ROOT, "plugins", "site-example")], capture_output=True, text=True)
     assert proc.returncode == 0, proc.stderr
     env = dict(os.environ, PYTHONPATH=str(target))

@@ -1,0 +1,904 @@
+"""Wiring integrity: is the drawing a circuit at all, and a sound one?
+
+These rules check what every other rule takes for granted: that each tag and
+part in a path names a declared device and a part its kind has, that the
+contacts used exist on the device, that every coil is drawn once and every
+contact's coil is drawn somewhere, that each load can be energized from its
+supply, that no path joins hot to common without a load, that two supplies
+are never joined, that each load's rated voltage matches its supply, that a
+grounded circuit switches only the ungrounded side of its loads, and that
+no wire ends in mid-air or device sits unused.
+
+The circuit questions (energizing paths, shorts, crossed supplies) are asked
+of ``ctllint.circuit.Circuit``; none of them enumerates paths. Elements
+whose tag or part is unknown are reported once, by ``unknown-device`` or
+``unknown-part``, and left out of the circuit rules here.
+"""
+from __future__ import annotations
+
+from typing import Iterable, Iterator
+
+import networkx as nx
+
+from ctllint import hookimpl
+from ctllint import kinds as K
+from ctllint.api import CheckContext, Example, Finding, Rule
+from ctllint.circuit import path_text
+from ctllint.model import Device, Element, Schematic, Severity, Supply
+from ctllint.quantities import format_si
+from ctllint.tables import COIL_MAX_FRACTION, COIL_MIN_FRACTION, coil_voltage_ok
+
+# The built-in kinds tell which fields name other devices and which parts a
+# kind has, for messages. Roles themselves come from the loader, which knows
+# plugin kinds too.
+_KINDS = K.KindRegistry.builtin()
+
+# Roles that grounded-side-switching looks for: switching and conductor elements.
+_SWITCHING_ROLES = (K.CONTACT, K.OUTPUT, K.CONDUCTOR)
+
+
+# ---------------------------------------------------------------------------
+# small helpers
+# ---------------------------------------------------------------------------
+
+
+def _rung(sch: Schematic, el: Element) -> str:
+    return f"rung {sch.rungs[el.rung].number}"
+
+
+def _subject(sch: Schematic, el: Element) -> str:
+    return f"{el.text}@rung{sch.rungs[el.rung].number}"
+
+
+def _kind(dev: Device) -> K.DeviceKind | None:
+    return _KINDS.get(dev.kind)
+
+
+def _tag_fields(dev: Device) -> list[tuple[str, list[str]]]:
+    """(field, tags named) for each of the device's fields that name other devices."""
+    kind = _kind(dev)
+    if kind is None:
+        return []
+    out = []
+    for name, spec in kind.fields.items():
+        value = dev.get(name)
+        if value is None or spec.type not in (K.TAG, K.TAGS):
+            continue
+        tags = list(value) if spec.type == K.TAGS else [value]
+        out.append((name, [t for t in tags if isinstance(t, str)]))
+    return out
+
+
+def _article(word: str) -> str:
+    return ("an " if word[:1] in "aeiou" else "a ") + word
+
+
+def _wires_in_order(sch: Schematic) -> list[str]:
+    seen: dict[str, None] = {}
+    for rung in sch.rungs:
+        for path in rung.paths:
+            for wire in path.wires:
+                seen.setdefault(wire, None)
+    return list(seen)
+
+
+def _rails(sch: Schematic) -> set[str]:
+    return {w for s in sch.supplies.values() for w in (s.hot, s.common)}
+
+
+def _tainted_wires(sch: Schematic) -> set[str]:
+    """Wires joined, through non-rail wires, to an element whose tag or part is unknown.
+
+    A load there may look open or shorted only because of the unknown element,
+    which ``unknown-device``/``unknown-part`` already report.
+    """
+    rails = _rails(sch)
+    parent: dict[str, str] = {}
+
+    def find(w: str) -> str:
+        parent.setdefault(w, w)
+        while parent[w] != w:
+            parent[w] = parent[parent[w]]
+            w = parent[w]
+        return w
+
+    for el in sch.elements:
+        if el.left not in rails and el.right not in rails:
+            parent[find(el.left)] = find(el.right)
+    roots = {find(w) for el in sch.elements if not el.role for w in (el.left, el.right) if w not in rails}
+    return {w for w in parent if find(w) in roots}
+
+
+def _and(words: list[str]) -> str:
+    return words[0] if len(words) == 1 else ", ".join(words[:-1]) + " and " + words[-1]
+
+
+# ---------------------------------------------------------------------------
+# unknown-device
+# ---------------------------------------------------------------------------
+
+
+def check_unknown_device(ctx: CheckContext) -> Iterator[Finding]:
+    sch = ctx.schematic
+    devices = sch.devices
+    for el in sch.elements:
+        if el.tag not in devices:
+            yield Finding(
+                el.loc,
+                f"{el.text} in {_rung(sch, el)}: device {el.tag} is not declared under 'devices'"
+                + (" or in a used file" if sch.uses else "")
+                + f"; declare it or correct the tag",
+                _subject(sch, el),
+            )
+    for dev in devices.values():
+        if dev.origin != sch.path:
+            continue
+        for name, tags in _tag_fields(dev):
+            for tag in tags:
+                if tag not in devices:
+                    yield Finding(
+                        dev.at(name),
+                        f"{name} of {dev.tag} names {tag}, which is not declared under 'devices'; declare it or correct the tag",
+                        f"{dev.tag}.{name}",
+                    )
+    for sup in sch.supplies.values():
+        if sup.source and sup.source not in devices:
+            yield Finding(
+                sup.at("source"),
+                f"source of supply {sup.name} names {sup.source}, which is not declared under 'devices'; declare the transformer or power supply",
+                f"supply {sup.name}",
+            )
+    for scenario in sch.expect:
+        for step in scenario.steps:
+            for tag in step.targets:
+                if tag and tag not in devices:
+                    yield Finding(
+                        step.target_locs.get(tag, step.loc),
+                        f"scenario '{scenario.name}': {step.action} names {tag}, which is not declared under 'devices'",
+                        f"expect {scenario.name}: {tag}",
+                    )
+
+
+# ---------------------------------------------------------------------------
+# unknown-part
+# ---------------------------------------------------------------------------
+
+
+def _valid_parts(dev: Device, kind: K.DeviceKind) -> list[str]:
+    parts = [f"{dev.tag}.{p}" for p in kind.parts]
+    if kind.positions:
+        parts += [f"{dev.tag}.{p}" for p in dev.get("positions") or ()]
+    if kind.bare:
+        parts.append(dev.tag)
+    return parts
+
+
+def check_unknown_part(ctx: CheckContext) -> Iterator[Finding]:
+    sch = ctx.schematic
+    for el in sch.elements:
+        dev = sch.devices.get(el.tag)
+        if dev is None or el.role:
+            continue
+        kind = _kind(dev)
+        what = _article(dev.kind)
+        if kind is not None and not kind.used_in_rungs:
+            why = (
+                f"{dev.tag} is {what}, which is drawn in the power circuit, not in control rungs; "
+                "use the coil or contacts of the device that switches it"
+            )
+        elif kind is None:
+            why = f"{dev.kind} {dev.tag} has no part {el.part!r}" if el.part else f"{dev.kind} {dev.tag} cannot be used as a bare tag"
+        else:
+            valid = ", ".join(_valid_parts(dev, kind)) or "none"
+            if el.part is None:
+                why = f"{dev.tag} is {what}: name one of its parts ({valid}), not the bare tag"
+            elif kind.positions:
+                why = f"selector {dev.tag} has no position '{el.part}' (its positions give {valid})"
+            else:
+                why = f"{dev.tag} is {what} and has no part '{el.part}' (use {valid})"
+        yield Finding(el.loc, f"{el.text} in {_rung(sch, el)}: {why}", _subject(sch, el))
+
+
+# ---------------------------------------------------------------------------
+# contact-count
+# ---------------------------------------------------------------------------
+
+
+def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
+    sch = ctx.schematic
+    used: dict[str, list[int]] = {}
+    for el in sch.elements:
+        if el.role != K.CONTACT or el.part not in ("NO", "NC"):
+            continue
+        dev = sch.devices.get(el.tag)
+        count = dev.get("contacts") if dev is not None else None
+        if count is None or not hasattr(count, "allows"):
+            continue
+        tally = used.setdefault(el.tag, [0, 0])
+        tally[0 if el.part == "NO" else 1] += 1
+        if not count.allows(tally[0], tally[1]):
+            given = [f"{n} {what}" for n, what in ((count.no, "NO"), (count.nc, "NC")) if n]
+            if count.changeover:
+                given.append(f"{count.changeover} changeover (each one NO or one NC)")
+            provides = " and ".join(given) or "no contacts"
+            yield Finding(
+                el.loc,
+                f"{el.text} in {_rung(sch, el)} is {el.part} contact number {tally[0 if el.part == 'NO' else 1]} drawn for {el.tag}, "
+                f"which provides {provides} (line {dev.at('contacts').line}) and {tally[0]} NO + {tally[1]} NC are drawn so far; "
+                "add an auxiliary contact block, correct `contacts`, or use a relay",
+                _subject(sch, el),
+            )
+
+
+# ---------------------------------------------------------------------------
+# coil-missing, coil-duplicate
+# ---------------------------------------------------------------------------
+
+
+def _has_coil(dev: Device) -> bool:
+    kind = _kind(dev)
+    return bool(kind and kind.coil)
+
+
+def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
+    sch = ctx.schematic
+    coils = {el.tag for el in sch.elements if el.part == "coil" and el.role == K.LOAD}
+    reported: set[str] = set()
+    for el in sch.elements:
+        if el.role != K.CONTACT or el.tag in coils or el.tag in reported:
+            continue
+        dev = sch.devices.get(el.tag)
+        if dev is None or not _has_coil(dev):
+            continue
+        reported.add(el.tag)
+        yield Finding(
+            el.loc,
+            f"{el.text} in {_rung(sch, el)} is a contact of {dev.kind} {el.tag}, but {el.tag}.coil is in no rung: "
+            "the contact never changes state; draw the coil or use another device's contact",
+            el.tag,
+        )
+
+
+def check_coil_duplicate(ctx: CheckContext) -> Iterator[Finding]:
+    sch = ctx.schematic
+    first: dict[str, Element] = {}
+    for el in sch.elements:
+        if el.part != "coil" or el.role != K.LOAD:
+            continue
+        if el.tag not in first:
+            first[el.tag] = el
+            continue
+        one = first[el.tag]
+        yield Finding(
+            el.loc,
+            f"{el.text} in {_rung(sch, el)} is drawn a second time (first in {_rung(sch, one)}, line {one.loc.line}); "
+            f"a device has one coil: join the branches that drive it to one {el.text}, or use a second relay",
+            _subject(sch, el),
+        )
+
+
+# ---------------------------------------------------------------------------
+# open-circuit, loads-in-series
+# ---------------------------------------------------------------------------
+
+
+def _rails_reached(ctx: CheckContext, load: Element, wire: str) -> list[str]:
+    """Rails that ``wire`` reaches through non-load elements, the load itself left out."""
+    graph = ctx.circuit.graph
+    rails = _rails(ctx.schematic)
+    if wire in rails:
+        return [wire]
+    if wire not in graph:
+        return []
+    seen = {wire}
+    stack = [wire]
+    found = set()
+    while stack:
+        w = stack.pop()
+        for _, other, data in graph.edges(w, data=True):
+            el = data.get("element")
+            if el is None or el is load or el.role in (K.LOAD, "") or other in seen:
+                continue
+            seen.add(other)
+            if other in rails:
+                found.add(other)
+            else:
+                stack.append(other)
+    return sorted(found)
+
+
+def check_open_circuit(ctx: CheckContext) -> Iterator[Finding]:
+    sch, circuit = ctx.schematic, ctx.circuit
+    tainted = _tainted_wires(sch)
+    for load in circuit.loads:
+        if load.left in tainted or load.right in tainted:
+            continue
+        if circuit.has_energizing_path(load):
+            continue
+        if circuit.reaches_rail_only_through_loads(load):
+            continue  # loads-in-series says so, more precisely
+        reached = [_rails_reached(ctx, load, wire) for wire in (load.left, load.right)]
+        supplies = {sch.supply_of_rail(r).name for rails in reached for r in rails if sch.supply_of_rail(r)}
+        if len(supplies) > 1:
+            continue  # joined to two supplies: supply-cross says so
+        sides = [
+            f"one side is on rail {wire}" if wire in rails and rails == [wire] else f"wire {wire} reaches " + (" and ".join(rails) if rails else "no rail")
+            for wire, rails in zip((load.left, load.right), reached)
+        ]
+        supply = circuit.supply_of(load) or (sch.supplies.get(next(iter(supplies))) if supplies else None)
+        want = f"hot {supply.hot} on one side and common {supply.common} on the other" if supply else "a supply's hot rail on one side and its common rail on the other"
+        yield Finding(
+            load.loc,
+            f"{load.text} in {_rung(sch, load)} can never be energized: it needs {want}, whatever the contacts do, "
+            f"but {'; '.join(sides)}; check the wire numbers of this rung",
+            _subject(sch, load),
+        )
+
+
+def _fed_from_hot(ctx: CheckContext, load: Element) -> bool:
+    """Whether a side of ``load`` reaches a hot rail without passing another load."""
+    hots = {s.hot for s in ctx.schematic.supplies.values()}
+    return any(r in hots for wire in (load.left, load.right) for r in _rails_reached(ctx, load, wire))
+
+
+def check_loads_in_series(ctx: CheckContext) -> Iterator[Finding]:
+    sch, circuit = ctx.schematic, ctx.circuit
+    tainted = _tainted_wires(sch)
+    # The second load of a pair is the one farther from hot: the one that
+    # does not reach a hot rail without passing a load; file order breaks ties.
+    order = {load.index: (0 if _fed_from_hot(ctx, load) else 1, load.index) for load in circuit.loads}
+    partners: dict[int, list[Element]] = {}
+    seconds: dict[int, Element] = {}
+    for load in circuit.loads:
+        if load.left in tainted or load.right in tainted:
+            continue
+        for other in circuit.reaches_rail_only_through_loads(load):
+            if other is load:
+                continue
+            first, second = sorted((load, other), key=lambda e: order.get(e.index, (1, e.index)))
+            seconds[second.index] = second
+            if all(p is not first for p in partners.setdefault(second.index, [])):
+                partners[second.index].append(first)
+    for index in sorted(seconds):
+        second = seconds[index]
+        firsts = sorted(partners[index], key=lambda e: e.index)
+        supply = circuit.supply_of(firsts[0]) or circuit.supply_of(second)
+        volts = f" of supply {supply.name} ({supply.voltage.text})" if supply else ""
+        names = ", ".join(f"{e.text} ({_rung(sch, e)})" for e in firsts)
+        yield Finding(
+            second.loc,
+            f"{second.text} in {_rung(sch, second)} is in series with {names}: it reaches the rail only through "
+            f"{'that load' if len(firsts) == 1 else 'those loads'}, so they share the voltage{volts} and none gets its rating; "
+            "connect each load between its own contacts and the common rail",
+            _subject(sch, second),
+        )
+
+
+# ---------------------------------------------------------------------------
+# short-circuit, supply-cross
+# ---------------------------------------------------------------------------
+
+
+def check_short_circuit(ctx: CheckContext) -> Iterator[Finding]:
+    sch = ctx.schematic
+    reported: set[int] = set()
+    for supply, path in ctx.circuit.short_circuits():
+        if not path or any(not el.role for el in path):
+            continue
+        first = path[0]
+        if first.index in reported:
+            continue
+        reported.add(first.index)
+        closing = [el.text for el in path if el.role in (K.CONTACT, K.OUTPUT)]
+        when = f"when {_and(closing)} {'close' if len(closing) > 1 else 'closes'}" if closing else "as soon as power is on"
+        yield Finding(
+            first.loc,
+            f"short circuit of supply {supply.name} ({supply.voltage.text}): {path_text(supply.hot, path)} "
+            f"joins hot to common with no load, {when}; put the load in this path or correct the wire numbers",
+            _subject(sch, first),
+        )
+
+
+def check_supply_cross(ctx: CheckContext) -> Iterator[Finding]:
+    sch = ctx.schematic
+    for el, first, second in ctx.circuit.supply_cross():
+        rail = next((w for w in (el.left, el.right) if w in (second.hot, second.common)), None)
+        touches = f"rail {rail} of supply {second.name}" if rail else f"supply {second.name}"
+        yield Finding(
+            el.loc,
+            f"{el.text} in {_rung(sch, el)} connects {touches} ({second.voltage.text}) to the circuit of supply "
+            f"{first.name} ({first.voltage.text}); separate supplies must never be joined: use a relay whose coil "
+            "is on one supply and contact on the other",
+            _subject(sch, el),
+        )
+
+
+# ---------------------------------------------------------------------------
+# voltage-mismatch
+# ---------------------------------------------------------------------------
+
+
+def _rated_voltage(dev: Device, el: Element):
+    return dev.get("coil") if el.part == "coil" else dev.get("voltage")
+
+
+def check_voltage_mismatch(ctx: CheckContext) -> Iterator[Finding]:
+    sch, circuit = ctx.schematic, ctx.circuit
+    for load in circuit.loads:
+        dev = sch.devices.get(load.tag)
+        if dev is None or not load.role:
+            continue
+        rated = _rated_voltage(dev, load)
+        supply = circuit.supply_of(load)
+        if rated is None or supply is None or not rated.value:
+            continue
+        problems = []
+        if not coil_voltage_ok(supply.voltage.value, rated.value):
+            low, high = COIL_MIN_FRACTION * rated.value, COIL_MAX_FRACTION * rated.value
+            problems.append(
+                f"{format_si(supply.voltage.value, 'V')} is outside {format_si(low, 'V')} to {format_si(high, 'V')} "
+                f"(85 % to 110 % of its rating)"
+            )
+        rated_kind = rated.current_kind or supply.current_kind
+        if rated_kind and supply.current_kind and rated_kind != supply.current_kind:
+            problems.append(f"it is rated for {rated_kind} and the supply is {supply.current_kind}")
+        if problems:
+            part = "coil" if load.part == "coil" else dev.kind
+            yield Finding(
+                load.loc,
+                f"{load.text} in {_rung(sch, load)} is rated {rated.text} but is on supply {supply.name} ({supply.voltage.text}): "
+                f"{'; '.join(problems)}; fit a {part} rated for {supply.voltage.text} or move it to a matching supply",
+                _subject(sch, load),
+            )
+    for el in sch.elements:
+        if el.role != K.OUTPUT:
+            continue
+        dev = sch.devices.get(el.tag)
+        if dev is None or dev.get("output") != "transistor":
+            continue
+        supplies = []
+        for load in circuit.served_loads(el):
+            sup = circuit.supply_of(load)
+            if sup is not None and sup not in supplies:
+                supplies.append(sup)
+        ac = next((s for s in supplies if s.current_kind == "AC"), None)
+        if ac is not None:
+            yield Finding(
+                el.loc,
+                f"{el.text} in {_rung(sch, el)} is a transistor output on AC supply {ac.name} ({ac.voltage.text}): "
+                "a transistor switches DC only; use a relay or triac output, or an interposing relay",
+                _subject(sch, el),
+            )
+
+
+# ---------------------------------------------------------------------------
+# grounded-side-switching
+# ---------------------------------------------------------------------------
+
+
+def _pairs_on_simple_paths(graph: nx.Graph, source: str, target: str) -> set[frozenset]:
+    """Edges (as wire pairs) that lie on at least one simple path from ``source`` to ``target``.
+
+    An edge lies on such a path exactly when its biconnected block lies on the
+    block-cut tree's path between the two: inside a 2-connected block, any
+    edge lies on a simple path between any two distinct vertices. Linear in
+    the graph's size; no path is enumerated.
+    """
+    if source == target or source not in graph or target not in graph or not nx.has_path(graph, source, target):
+        return set()
+    tree, block_edges = _block_cut_tree(graph)
+    start, goal = _tree_node(tree, source), _tree_node(tree, target)
+    route = nx.shortest_path(tree, start, goal)
+    out: set[frozenset] = set()
+    for node in route:
+        if node[0] == "B":
+            out |= block_edges[node[1]]
+    return out
+
+
+def _block_cut_tree(graph: nx.Graph) -> tuple[nx.Graph, list[set[frozenset]]]:
+    tree = nx.Graph()
+    blocks: list[set[frozenset]] = []
+    cuts = set(nx.articulation_points(graph))
+    for i, edges in enumerate(nx.biconnected_component_edges(graph)):
+        pairs = {frozenset(e) for e in edges}
+        blocks.append(pairs)
+        tree.add_node(("B", i))
+        for wire in {w for e in edges for w in e}:
+            if wire in cuts:
+                tree.add_edge(("B", i), ("C", wire))
+            else:
+                tree.add_edge(("B", i), ("W", wire))
+    return tree, blocks
+
+
+def _tree_node(tree: nx.Graph, wire: str):
+    return ("C", wire) if ("C", wire) in tree else ("W", wire)
+
+
+class _SupplySides:
+    """For one grounded supply: which elements lie between a load and the common rail.
+
+    The graph is the circuit with every load, every unknown element and every
+    other rail taken out, since an energizing path passes no other load. The
+    block-cut tree of its common-side part is built once; a load whose two
+    sides are joined without a load (a bypass, reported elsewhere) is
+    worked out on its own.
+    """
+
+    def __init__(self, ctx: CheckContext, supply: Supply):
+        self.supply = supply
+        rails = _rails(ctx.schematic)
+        base = nx.Graph()
+        self.elements: dict[frozenset, list[Element]] = {}
+        for a, b, data in ctx.circuit.graph.edges(data=True):
+            el = data.get("element")
+            if el is None or el.role in (K.LOAD, "") or a == b:
+                continue
+            pair = frozenset((a, b))
+            self.elements.setdefault(pair, []).append(el)
+            base.add_edge(a, b)
+        self.common_graph = base.copy()
+        self.common_graph.remove_nodes_from([r for r in rails if r != supply.common])
+        self.hot_graph = base.copy()
+        self.hot_graph.remove_nodes_from([r for r in rails if r != supply.hot])
+        self._common_component = _component_map(self.common_graph)
+        self._hot_component = _component_map(self.hot_graph)
+        self._tree = None
+
+    def _reaches_hot(self, wire: str, other_side: str) -> bool:
+        hot = self.supply.hot
+        if wire == hot:
+            return True
+        comp = self._hot_component.get(wire)
+        if comp is None or comp != self._hot_component.get(hot):
+            return False
+        if self._hot_component.get(other_side) != comp:
+            return True
+        graph = self.hot_graph.subgraph(n for n in self.hot_graph if n != other_side)
+        return nx.has_path(graph, wire, hot)
+
+    def common_side(self, load: Element) -> list[Element]:
+        """Non-load elements on some energizing path of ``load`` between it and the common rail."""
+        hot, common = self.supply.hot, self.supply.common
+        pairs: set[frozenset] = set()
+        for hot_side, common_side in ((load.left, load.right), (load.right, load.left)):
+            if hot_side == common or common_side == hot or hot_side == common_side:
+                continue
+            if not self._reaches_hot(hot_side, common_side):
+                continue
+            if common_side == common:
+                continue
+            comp = self._common_component.get(common_side)
+            if comp is None or comp != self._common_component.get(common):
+                continue
+            if self._common_component.get(hot_side) == comp:
+                graph = self.common_graph.subgraph(n for n in self.common_graph if n != hot_side)
+                pairs |= _pairs_on_simple_paths(nx.Graph(graph), common_side, common)
+            else:
+                pairs |= self._on_paths_to_common(common_side)
+        found = [el for pair in pairs for el in self.elements.get(pair, ())]
+        return sorted(found, key=lambda e: e.index)
+
+    def _on_paths_to_common(self, wire: str) -> set[frozenset]:
+        if self._tree is None:
+            tree, blocks = _block_cut_tree(self.common_graph)
+            goal = _tree_node(tree, self.supply.common)
+            parents = nx.predecessor(tree, goal) if goal in tree else {}
+            self._tree = (tree, blocks, goal, parents)
+        tree, blocks, goal, parents = self._tree
+        node = _tree_node(tree, wire)
+        if node not in parents:
+            return set()
+        out: set[frozenset] = set()
+        while True:
+            if node[0] == "B":
+                out |= blocks[node[1]]
+            if node == goal:
+                return out
+            node = parents[node][0]
+
+
+def _component_map(graph: nx.Graph) -> dict[str, int]:
+    out = {}
+    for i, comp in enumerate(nx.connected_components(graph)):
+        for wire in comp:
+            out[wire] = i
+    return out
+
+
+def _is_overload_contact(sch: Schematic, el: Element) -> bool:
+    dev = sch.devices.get(el.tag)
+    return el.role == K.CONTACT and dev is not None and dev.kind == "overload"
+
+
+def check_grounded_side_switching(ctx: CheckContext) -> Iterator[Finding]:
+    sch, circuit = ctx.schematic, ctx.circuit
+    sides: dict[str, _SupplySides] = {}
+    flagged: dict[int, tuple[Element, Supply, list[Element]]] = {}
+    for load in circuit.loads:
+        supply = circuit.supply_of(load)
+        if supply is None or not supply.grounded or not load.role:
+            continue
+        if supply.name not in sides:
+            sides[supply.name] = _SupplySides(ctx, supply)
+        for el in sides[supply.name].common_side(load):
+            if el.role not in _SWITCHING_ROLES or _is_overload_contact(sch, el):
+                continue
+            entry = flagged.setdefault(el.index, (el, supply, []))
+            entry[2].append(load)
+    for index in sorted(flagged):
+        el, supply, loads = flagged[index]
+        names = ", ".join(load.text for load in loads)
+        if el.role == K.CONDUCTOR:
+            dev = sch.devices.get(el.tag)
+            what = dev.kind if dev is not None else "fuse"
+            why = (
+                f"when it opens, the grounded conductor is broken and the load stays connected to hot; "
+                f"protect the hot side ({supply.hot}) instead"
+            )
+        else:
+            what = "PLC output" if el.role == K.OUTPUT else "contact"
+            why = (
+                f"a ground fault on the wire between the load and {el.text} bypasses it and energizes the load; "
+                f"move {el.text} to the hot side ({supply.hot}) of the load"
+            )
+        yield Finding(
+            el.loc,
+            f"{what} {el.text} in {_rung(sch, el)} is between {names} and the grounded common {supply.common} "
+            f"of supply {supply.name}: {why}",
+            _subject(sch, el),
+        )
+
+
+# ---------------------------------------------------------------------------
+# dangling-wire, unused-device
+# ---------------------------------------------------------------------------
+
+
+def check_dangling_wire(ctx: CheckContext) -> Iterator[Finding]:
+    sch, circuit = ctx.schematic, ctx.circuit
+    rails = _rails(sch) | set(circuit.rails)
+    first_at: dict[str, Element] = {}
+    for e in sch.elements:
+        first_at.setdefault(e.left, e)
+        first_at.setdefault(e.right, e)
+    for wire in _wires_in_order(sch):
+        if wire in rails or circuit.wire_degree(wire) != 1 or wire not in first_at:
+            continue
+        el = first_at[wire]
+        yield Finding(
+            el.loc,
+            f"wire {wire} ends at {el.text} in {_rung(sch, el)} and goes nowhere else: {el.text} is connected on one side only; "
+            "correct the wire number or complete the path",
+            f"wire {wire}",
+        )
+
+
+def _used_tags(sch: Schematic) -> set[str]:
+    used = {el.tag for el in sch.elements}
+    for dev in sch.devices.values():
+        for _, tags in _tag_fields(dev):
+            used.update(tags)
+    used.update(s.source for s in sch.supplies.values() if s.source)
+    for scenario in sch.expect:
+        for step in scenario.steps:
+            used.update(t for t in step.targets if t)
+    return used
+
+
+def check_unused_device(ctx: CheckContext) -> Iterator[Finding]:
+    sch = ctx.schematic
+    used = _used_tags(sch)
+    for dev in sch.devices.values():
+        if dev.origin != sch.path or dev.tag in used:
+            continue
+        yield Finding(
+            dev.loc,
+            f"{dev.kind} {dev.tag} is declared but used nowhere: in no rung, no supply's source, no other device's field "
+            "and no expect step; draw it or remove it",
+            dev.tag,
+        )
+
+
+# ---------------------------------------------------------------------------
+# registration
+# ---------------------------------------------------------------------------
+
+RULES = [
+    Rule(
+        name="unknown-device",
+        severity=Severity.ERROR,
+        summary="a tag in a path, a device field, a supply's source or an expect step is not declared",
+        doc=(
+            "Every tag a schematic names must be a declared device, in this file or a used device file. "
+            "A mistyped tag (CR12 for CR21) would otherwise draw a contact nobody can find in the panel, "
+            "a starter whose overload does not exist, or a scenario that checks nothing. Naming a device "
+            "of the wrong kind (a starter whose overload is a pushbutton) is a format error instead."
+        ),
+        source="common practice (every reference designation on a drawing names a listed device)",
+        check=check_unknown_device,
+        failing=Example("CR2 is not declared", "devices:\n  CR1: {kind: relay, coil: 120 VAC}\nrungs:\n  - paths:\n      - [L1, CR2.NO, 3, SOL1, X2]"),
+        passing=Example("every tag declared", "devices:\n  CR1: {kind: relay, coil: 120 VAC}\nrungs:\n  - paths:\n      - [L1, CR1.NO, 3, SOL1, X2]"),
+    ),
+    Rule(
+        name="unknown-part",
+        severity=Severity.ERROR,
+        summary="an element names a part its device's kind does not have, or a device never drawn in rungs",
+        doc=(
+            "A pushbutton has contacts but no coil, a selector has only the positions it lists, a starter is "
+            "drawn by its coil and contacts, never bare, and motors, heaters, transformers and power supplies "
+            "belong to the power circuit, not to control rungs. Such an element cannot be built as drawn, so "
+            "ctllint cannot say what it does; the circuit rules leave it out."
+        ),
+        source="common practice",
+        check=check_unknown_part,
+        failing=Example("a pushbutton has no coil", "devices:\n  PB1: {kind: pushbutton, function: start}\nrungs:\n  - paths:\n      - [L1, PB1.coil, X2]"),
+        passing=Example("a pushbutton's contact", "devices:\n  PB1: {kind: pushbutton, function: start}\nrungs:\n  - paths:\n      - [L1, PB1.NO, 3, CR1.coil, X2]"),
+    ),
+    Rule(
+        name="contact-count",
+        severity=Severity.ERROR,
+        summary="more NO (or NC) contacts used than the device's `contacts` provides",
+        doc=(
+            "A device has a fixed number of contacts. Drawing more NO or NC uses than it provides gives a "
+            "panel that cannot be wired as drawn; the missing contact is usually found at commissioning. "
+            "Changeover (double-throw) poles give one NO or one NC use each. Devices without `contacts` are "
+            "not checked."
+        ),
+        source="common practice",
+        check=check_contact_count,
+        failing=Example("two NO uses of a 1 NO relay", "  CR1: {kind: relay, coil: 120 VAC, contacts: {NO: 1, NC: 1}}\n  ...\n      - [L1, CR1.NO, 5, SOL1, X2]\n      - [L1, CR1.NO, 6, SOL2, X2]"),
+        passing=Example("one NO and one NC use", "  CR1: {kind: relay, coil: 120 VAC, contacts: {NO: 1, NC: 1}}\n  ...\n      - [L1, CR1.NO, 5, SOL1, X2]\n      - [L1, CR1.NC, 6, SOL2, X2]"),
+    ),
+    Rule(
+        name="coil-missing",
+        severity=Severity.ERROR,
+        summary="contacts of a relay, timer, contactor or starter are used but its coil is in no rung",
+        doc=(
+            "A relay's contacts move only when its coil is energized. A contact whose coil is drawn nowhere "
+            "never changes state, so the logic that depends on it is dead or always on; usually the coil "
+            "was left off the drawing or the contact carries the wrong tag."
+        ),
+        source="common practice",
+        check=check_coil_missing,
+        failing=Example("CR2's contact, no CR2 coil", "      - [L1, PB1.NO, 3, CR1.coil, X2]\n      - [L1, CR2.NO, 4, SOL1, X2]"),
+        passing=Example("the contact's coil is drawn", "      - [L1, PB1.NO, 3, CR1.coil, X2]\n      - [L1, CR1.NO, 4, SOL1, X2]"),
+    ),
+    Rule(
+        name="coil-duplicate",
+        severity=Severity.ERROR,
+        summary="the same coil is drawn twice",
+        doc=(
+            "A device has one coil. Drawing it twice means two branches are meant to drive it; as drawn "
+            "they are two coils, and the panel builder cannot wire both. Join the branches in parallel "
+            "ahead of one coil."
+        ),
+        source="common practice",
+        check=check_coil_duplicate,
+        failing=Example("CR1.coil twice", "      - [L1, PB1.NO, 3, CR1.coil, X2]\n      - [L1, LS1.NO, 4, CR1.coil, X2]"),
+        passing=Example("branches in parallel ahead of one coil", "      - [L1, PB1.NO, 3, CR1.coil, X2]\n      - [L1, LS1.NO, 3]"),
+    ),
+    Rule(
+        name="open-circuit",
+        severity=Severity.ERROR,
+        summary="a load can never reach hot on one side and common on the other",
+        doc=(
+            "A load is energized only with its supply's hot rail on one terminal and the same supply's "
+            "common on the other. Where no combination of contact states does that (a missing return "
+            "to common, a mistyped wire number), the coil, solenoid or light is dead: the machine will "
+            "not do what the drawing shows. A load that reaches a rail only through another load is "
+            "reported as loads-in-series instead."
+        ),
+        source="common practice",
+        check=check_open_circuit,
+        failing=Example("no return to common", "      - [L1, PB1.NO, 3, CR1.coil, 4]"),
+        passing=Example("coil returns to X2", "      - [L1, PB1.NO, 3, CR1.coil, X2]"),
+    ),
+    Rule(
+        name="loads-in-series",
+        severity=Severity.ERROR,
+        summary="a load reaches a rail only through another load",
+        doc=(
+            "Loads in series share the supply voltage: neither gets its rated voltage, a coil may not pick "
+            "up or may chatter, and one load failing open drops the other. Every load belongs between its "
+            "switching elements and the common rail, in parallel with the others."
+        ),
+        source="common practice",
+        check=check_loads_in_series,
+        failing=Example("coil then light to common", "      - [L1, PB1.NO, 3, CR1.coil, 4, PL1, X2]"),
+        passing=Example("light in parallel, switched by a contact", "      - [L1, PB1.NO, 3, CR1.coil, X2]\n      - [L1, CR1.NO, 4, PL1, X2]"),
+    ),
+    Rule(
+        name="short-circuit",
+        severity=Severity.ERROR,
+        summary="hot and common of a supply are joined by a path with no load in it",
+        doc=(
+            "A path of contacts, outputs or fuses from hot to common with no load shorts the supply when "
+            "its contacts close, tripping the protection or welding the contacts. The path counts if it "
+            "exists on paper, for any combination of contact states, since the drawing is what gets wired."
+        ),
+        source="common practice",
+        check=check_short_circuit,
+        failing=Example("contact straight across the supply", "      - [L1, PB1.NO, 3, CR1.coil, X2]\n      - [3, CR1.NO, X2]"),
+        passing=Example("seal-in around the start button", "      - [L1, PB1.NO, 3, CR1.coil, X2]\n      - [L1, CR1.NO, 3]"),
+    ),
+    Rule(
+        name="supply-cross",
+        severity=Severity.ERROR,
+        summary="elements connect the rails of two different supplies",
+        doc=(
+            "Separate supplies (a 120 VAC control transformer and a 24 VDC power supply) must never be joined: "
+            "a path between them puts one supply's voltage on the other's devices, damages electronics and "
+            "defeats each supply's protection. Pass signals between supplies through a relay whose coil is on "
+            "one and whose contact is on the other."
+        ),
+        source="common practice",
+        check=check_supply_cross,
+        failing=Example("a 24 V contact fed from L1", "      - [L1, PB1.NO, 3, CR1.coil, \"0V\"]"),
+        passing=Example("an interposing relay", "      - [\"+24\", Q0_1, 3, CR1.coil, \"0V\"]\n      - [L1, CR1.NO, 4, SOL1, X2]"),
+    ),
+    Rule(
+        name="voltage-mismatch",
+        severity=Severity.ERROR,
+        summary="a load's rated voltage does not match its supply, or a transistor output is on AC",
+        doc=(
+            "A coil picks up and holds between 85 % and 110 % of its rated voltage: below that it may not "
+            "close or may chatter, above it overheats. AC and DC coils are not interchangeable: a DC coil on "
+            "AC hums and overheats, an AC coil on DC burns out. The same holds for solenoids, pilot lights, "
+            "horns and PLC inputs with a rated voltage. A transistor output cannot switch AC. Loads without "
+            "a rated voltage are not checked."
+        ),
+        source="IEC 60947-4-1 operating limits of electromagnets, 85 % to 110 % of rated control voltage (from memory)",
+        check=check_voltage_mismatch,
+        failing=Example("a 24 VDC coil on 120 VAC", "  CR1: {kind: relay, coil: 24 VDC}\n  ...\n      - [L1, PB1.NO, 3, CR1.coil, X2]"),
+        passing=Example("a 120 VAC coil on 120 VAC", "  CR1: {kind: relay, coil: 120 VAC}\n  ...\n      - [L1, PB1.NO, 3, CR1.coil, X2]"),
+    ),
+    Rule(
+        name="grounded-side-switching",
+        severity=Severity.ERROR,
+        summary="on a grounded supply, a contact, PLC output, fuse or breaker sits between a load and the common rail",
+        doc=(
+            "In a grounded control circuit every load has one side tied straight to the grounded common, "
+            "and all switching is on the hot side. A contact on the grounded side leaves the load connected "
+            "to hot while off: a ground fault on the wire between the load and that contact energizes the "
+            "load (a motor starts by itself) or a stop contact there is bypassed. Overload relay contacts "
+            "are allowed on the grounded side, as both standards permit."
+        ),
+        source="IEC 60204-1:2016 9.4.3.1.1 method a) and NFPA 79 9.4.3 (grounded control circuits; clause numbers from memory)",
+        check=check_grounded_side_switching,
+        failing=Example("stop button on the grounded side", "      - [L1, PB2.NO, 3, M1.coil, 4, PB1.NC, 5, OL1.NC, X2]"),
+        passing=Example("stop on the hot side, overload on the grounded side", "      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]"),
+    ),
+    Rule(
+        name="dangling-wire",
+        severity=Severity.WARNING,
+        summary="a wire, not a rail, has only one connection",
+        doc=(
+            "A wire number that appears at one element only goes nowhere: usually a mistyped wire number "
+            "(3 for 8) that silently opens a branch, or a half-drawn path."
+        ),
+        source="common practice",
+        check=check_dangling_wire,
+        failing=Example("wire 8 ends at LS1", "      - [L1, PB1.NO, 3, CR1.coil, X2]\n      - [8, LS1.NO, 3]"),
+        passing=Example("LS1 in parallel with PB1", "      - [L1, PB1.NO, 3, CR1.coil, X2]\n      - [L1, LS1.NO, 3]"),
+    ),
+    Rule(
+        name="unused-device",
+        severity=Severity.INFO,
+        summary="a device declared in this file is used nowhere",
+        doc=(
+            "A device that no rung, supply, other device or expect step names is a leftover of an edit or a "
+            "part of the drawing that was never finished. Devices from used shared files are not reported."
+        ),
+        source="common practice",
+        check=check_unused_device,
+        failing=Example("PB9 declared, never drawn", "devices:\n  PB9: {kind: pushbutton}"),
+        passing=Example("every device drawn", "devices:\n  PB1: {kind: pushbutton}\nrungs:\n  - paths:\n      - [L1, PB1.NO, 3, CR1.coil, X2]"),
+    ),
+]
+
+
+@hookimpl
+def ctllint_rules() -> Iterable[Rule]:
+    return RULES
