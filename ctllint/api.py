@@ -12,6 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any, Callable, Iterable
 
+from .kinds import KindRegistry
 from .model import Diagnostic, Location, Schematic, Severity
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -96,6 +97,7 @@ class CheckContext:
     circuit: "Circuit"
     options: dict[str, Any]
     rule: Rule | None = None
+    kinds: KindRegistry = field(default_factory=KindRegistry.builtin)
 
     @property
     def devices(self):

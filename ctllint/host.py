@@ -226,7 +226,7 @@ def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings) ->
             if deadline.expired():
                 out.append(plugin_error(path, f"rule {name} ({rule.plugin}) did not run: the file's rules passed the time limit of {settings.time_limit:g} s (limits.plugin_seconds)"))
                 continue
-            ctx = CheckContext(schematic, circuit, settings.options.get(name, {}), rule)
+            ctx = CheckContext(schematic, circuit, settings.options.get(name, {}), rule, host.kinds)
             try:
                 found = list(rule.check(ctx) or ())
             except PluginTimeout:
@@ -243,7 +243,7 @@ def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings) ->
         for impl in caller.get_hookimpls():
             if impl.hookwrapper or getattr(impl, "wrapper", False):
                 continue
-            ctx = CheckContext(schematic, circuit, {}, None)
+            ctx = CheckContext(schematic, circuit, {}, None, host.kinds)
             try:
                 value = impl.function(**{a: {"context": ctx}[a] for a in impl.argnames})
                 pairs = list(value or ())

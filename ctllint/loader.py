@@ -355,6 +355,9 @@ class _Loader:
             try:
                 dev.fields[name] = self.read_field(vn, spec, f"{tag}.{name}" if False else f"{name} of {tag}", kind)
                 dev.field_locs[name] = self.loc(vn)
+                if spec.type == K.TAGS and isinstance(vn, SequenceNode):
+                    for i, item in enumerate(vn.value):  # each tag of a list, e.g. fuses.1
+                        dev.field_locs[f"{name}.{i}"] = self.loc(item)
             except _Stop:
                 ok = False
         for req in kind.required:

@@ -50,13 +50,13 @@ def _subject(sch: Schematic, el: Element) -> str:
     return f"{el.text}@rung{sch.rungs[el.rung].number}"
 
 
-def _kind(dev: Device) -> K.DeviceKind | None:
-    return _KINDS.get(dev.kind)
+def _kind(dev: Device, kinds: K.KindRegistry | None = None) -> K.DeviceKind | None:
+    return (kinds or _KINDS).get(dev.kind)
 
 
-def _tag_fields(dev: Device) -> list[tuple[str, list[str]]]:
+def _tag_fields(dev: Device, kinds: K.KindRegistry | None = None) -> list[tuple[str, list[str]]]:
     """(field, tags named) for each of the device's fields that name other devices."""
-    kind = _kind(dev)
+    kind = _kind(dev, kinds)
     if kind is None:
         return []
     out = []
@@ -133,11 +133,11 @@ def check_unknown_device(ctx: CheckContext) -> Iterator[Finding]:
     for dev in devices.values():
         if dev.origin != sch.path:
             continue
-        for name, tags in _tag_fields(dev):
-            for tag in tags:
+        for name, tags in _tag_fields(dev, ctx.kinds):
+            for i, tag in enumerate(tags):
                 if tag not in devices:
                     yield Finding(
-                        dev.at(name),
+                        dev.field_locs.get(f"{name}.{i}", dev.at(name)),
                         f"{name} of {dev.tag} names {tag}, which is not declared under 'devices'; declare it or correct the tag",
                         f"{dev.tag}.{name}",
                     )
@@ -675,10 +675,10 @@ def check_dangling_wire(ctx: CheckContext) -> Iterator[Finding]:
         )
 
 
-def _used_tags(sch: Schematic) -> set[str]:
+def _used_tags(sch: Schematic, kinds: K.KindRegistry) -> set[str]:
     used = {el.tag for el in sch.elements}
     for dev in sch.devices.values():
-        for _, tags in _tag_fields(dev):
+        for _, tags in _tag_fields(dev, kinds):
             used.update(tags)
     used.update(s.source for s in sch.supplies.values() if s.source)
     for scenario in sch.expect:
@@ -689,7 +689,7 @@ def _used_tags(sch: Schematic) -> set[str]:
 
 def check_unused_device(ctx: CheckContext) -> Iterator[Finding]:
     sch = ctx.schematic
-    used = _used_tags(sch)
+    used = _used_tags(sch, ctx.kinds)
     for dev in sch.devices.values():
         if dev.origin != sch.path or dev.tag in used:
             continue
