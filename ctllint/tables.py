@@ -462,6 +462,8 @@ def _amps(value: float) -> str:
     exponent = math.floor(math.log10(abs(value)))
     quantum = Decimal(1).scaleb(exponent - 2)
     text = format(Decimal(repr(value)).quantize(quantum, rounding=ROUND_HALF_UP), "f")
+    if "." in text:
+        text = text.rstrip("0").rstrip(".")  # 20.0 -> 20, 2.60 -> 2.6
     return text
 
 

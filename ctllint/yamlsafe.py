@@ -259,7 +259,10 @@ def scalar_value(node: ScalarNode) -> Any:
     first = text[0]
     if first in _NUMERIC_START:
         if _INT.match(text):
-            return int(text)
+            try:
+                return int(text)
+            except ValueError:  # more digits than Python converts (4300): stays text, for the loader to refuse
+                return text
         if _FLOAT.match(text):
             return float(text)
         if _INF.match(text):
