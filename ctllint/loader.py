@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 import os
 import re
+import stat
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
@@ -84,6 +85,11 @@ def find_repository_root(path: str) -> str:
         probe = parent
 
 
+# Real paths of the files whose ``use`` is being followed right now: a used
+# file that uses one of them back is a cycle, refused instead of recursed into.
+_USE_CHAIN: set[str] = set()
+
+
 class DeviceFileCache:
     """Parsed shared device files, keyed by real path and modification time."""
 
@@ -106,15 +112,26 @@ class DeviceFileCache:
 def read_text(path: str, limits: Limits) -> tuple[str | None, Diagnostic | None]:
     """Read a file as UTF-8 (a byte-order mark allowed), or say why not."""
     try:
-        size = os.path.getsize(path)
-        if size > limits.max_file_bytes:
-            return None, format_error(path, 1, 1, f"file is {size / 1e6:.1f} MB, above the limit of {limits.max_file_bytes / 1e6:.1f} MB (limits.max_file_bytes)")
-        with open(path, "rb") as handle:
-            data = handle.read()
+        # Non-blocking open, then fstat: a named pipe, a socket or a device
+        # (a link to /dev/zero, say) is refused instead of blocking or reading forever.
+        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+        with os.fdopen(fd, "rb") as handle:
+            info = os.fstat(fd)
+            if stat.S_ISDIR(info.st_mode):
+                return None, format_error(path, 1, 1, "is a folder, not a schematic file")
+            if not stat.S_ISREG(info.st_mode):
+                return None, format_error(path, 1, 1, "is not a regular file (a pipe, socket or device), so it is not read")
+            if info.st_size > limits.max_file_bytes:
+                return None, format_error(path, 1, 1, f"file is {info.st_size / 1e6:.1f} MB, above the limit of {limits.max_file_bytes / 1e6:.1f} MB (limits.max_file_bytes)")
+            data = handle.read(limits.max_file_bytes + 1)
+        if len(data) > limits.max_file_bytes:
+            return None, format_error(path, 1, 1, f"file is above the limit of {limits.max_file_bytes / 1e6:.1f} MB (limits.max_file_bytes)")
     except IsADirectoryError:
         return None, format_error(path, 1, 1, "is a folder, not a schematic file")
     except OSError as exc:
         return None, format_error(path, 1, 1, f"cannot read file: {exc.strerror or exc}")
+    except ValueError as exc:  # a path holding a NUL character
+        return None, format_error(path, 1, 1, f"cannot read file: {exc}")
     if data.startswith(b"\xef\xbb\xbf"):
         data = data[3:]
     try:
@@ -511,6 +528,9 @@ class _Loader:
                 rel = self.text(item, "use entry")
             except _Stop:
                 continue
+            if any(ord(c) < 32 for c in rel):
+                self.error(item, f"use path {rel!r} holds a control character")
+                continue
             if os.path.isabs(rel):
                 self.error(item, f"use path '{rel}' must be relative to this file")
                 continue
@@ -525,9 +545,19 @@ class _Loader:
             if not os.path.isfile(real):
                 self.error(item, f"use path '{rel}' does not exist" if not os.path.exists(target) else f"use path '{rel}' is not a readable file")
                 continue
+            me = os.path.realpath(self.real_path)
+            if real == me or real in _USE_CHAIN:
+                self.error(item, f"use path '{rel}' leads back to a file that uses it; a used file holds only ctllint and devices, never use")
+                continue
             shown = _display_path(self.path, rel)
             loader = lambda: load_file(real, self.kinds, self.limits, None, display_path=shown)  # noqa: E731
-            result = self.cache.get(real, loader) if self.cache else loader()
+            outermost = me not in _USE_CHAIN
+            _USE_CHAIN.add(me)
+            try:
+                result = self.cache.get(real, loader) if self.cache else loader()
+            finally:
+                if outermost:
+                    _USE_CHAIN.discard(me)
             self.used.append(real)
             if result.schematic is None:
                 first = result.diagnostics[0] if result.diagnostics else None

@@ -12,6 +12,7 @@ import hashlib
 import json
 import multiprocessing
 import os
+import stat
 import sys
 import tempfile
 from concurrent.futures import ProcessPoolExecutor
@@ -41,7 +42,17 @@ def default_cache_dir() -> str:
     return os.path.join(base, "ctllint")
 
 
+def _regular_file(path: str) -> bool:
+    """Only regular files are opened here: a named pipe would block, /dev/zero never end."""
+    try:
+        return stat.S_ISREG(os.stat(path).st_mode)
+    except (OSError, ValueError):
+        return False
+
+
 def _digest(path: str) -> str | None:
+    if not _regular_file(path):
+        return None
     try:
         with open(path, "rb") as handle:
             return hashlib.sha256(handle.read()).hexdigest()
@@ -137,6 +148,8 @@ def dependents(device_files: list[str], exclude: list[str], base: str | None) ->
         real = os.path.realpath(device_file)
         candidates, _ = discover([root], exclude, base)
         for t in candidates:
+            if not _regular_file(t.path):
+                continue
             try:
                 with open(t.path, encoding="utf-8", errors="replace") as handle:
                     text = handle.read()
@@ -153,6 +166,8 @@ def dependents(device_files: list[str], exclude: list[str], base: str | None) ->
 
 
 def _is_device_file(path: str) -> bool:
+    if not _regular_file(path):
+        return False
     try:
         with open(path, encoding="utf-8", errors="replace") as handle:
             head = handle.read(200_000)

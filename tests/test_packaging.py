@@ -24,10 +24,19 @@ def test_editable_install_exposes_entry_points():
     assert os.path.samefile(os.path.dirname(ctllint_plugins.__file__), os.path.join(ROOT, "plugins"))
 
 
+def _copy(src, dst):
+    """Build from a copy: setuptools writes build metadata into the folder it builds."""
+    import shutil
+
+    shutil.copytree(src, dst, ignore=shutil.ignore_patterns(".git", ".ci", "build", "*.egg-info", "__pycache__", ".pytest_cache", ".hypothesis", "tests", "fixtures"))
+    return str(dst)
+
+
 @pytest.fixture(scope="module")
 def wheel(tmp_path_factory):
     out = tmp_path_factory.mktemp("wheel")
-    proc = subprocess.run([sys.executable, "-m", "pip", "wheel", "--no-deps", "-q", "-w", str(out), ROOT],
+    src = _copy(ROOT, tmp_path_factory.mktemp("src") / "ctllint")
+    proc = subprocess.run([sys.executable, "-m", "pip", "wheel", "--no-deps", "-q", "-w", str(out), src],
                           capture_output=True, text=True)
     if proc.returncode != 0:
         pytest.fail(f"pip wheel failed:\n{proc.stdout}\n{proc.stderr}")
@@ -67,7 +76,7 @@ def test_site_example_installs_with_its_entry_point(tmp_path):
     """The example site plugin installs as its own package and registers through the same group."""
     target = tmp_path / "site"
     proc = subprocess.run([sys.executable, "-m", "pip", "install", "--no-deps", "-q", "--target", str(target),
-                           os.path.join(ROOT, "plugins", "site-example")], capture_output=True, text=True)
+                           _copy(os.path.join(ROOT, "plugins", "site-example"), tmp_path / "src")], capture_output=True, text=True)
     assert proc.returncode == 0, proc.stderr
     env = dict(os.environ, PYTHONPATH=str(target))
     proc = subprocess.run([sys.executable, "-m", "ctllint", "rules"], capture_output=True, text=True, env=env, cwd=str(tmp_path))

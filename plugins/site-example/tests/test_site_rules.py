@@ -5,9 +5,26 @@ import pytest
 
 from ctllint.testing import case_params, check_case
 
-from ctllint_site_example import rules as site_rules
+HERE = os.path.dirname(os.path.abspath(__file__))
+CASES = os.path.join(HERE, "cases")
 
-CASES = os.path.join(os.path.dirname(__file__), "cases")
+
+def _load_plugin():
+    """Import the plugin module from its source file, installed or not, without touching sys.path.
+
+    (Putting the source folder on sys.path would also expose any build metadata
+    there, registering the plugin for every other test of the session.)
+    """
+    import importlib.util
+
+    path = os.path.join(os.path.dirname(HERE), "ctllint_site_example", "rules.py")
+    spec = importlib.util.spec_from_file_location("ctllint_site_example_under_test", path)
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module
+
+
+site_rules = _load_plugin()
 
 
 @pytest.mark.parametrize("case", case_params(CASES))

@@ -1,0 +1,1054 @@
+"""Draw a schematic's ladder as plain SVG.
+
+The drawing is built in two steps. ``layout`` places everything on a grid
+of columns and rows and measures text; ``Drawing.svg`` writes the result.
+No drawing library is used: the SVG is a few hundred lines of plain
+elements, written in a fixed order with rounded coordinates, so the same
+schematic and findings always give the same bytes.
+
+Layout, rung by rung:
+
+- Rungs keep the file's order, top to bottom. Consecutive rungs on the same
+  supply share one pair of rails (hot at left, common at right), headed by
+  the rail wire names and the supply's name and voltage.
+- Inside a rung each wire is a node and each element an edge. Nodes get a
+  column: the longest run of elements from the hot rail (contacts pack to
+  the left), except that a load and whatever follows it pack to the right,
+  next to the common rail, as loads sit on a ladder diagram.
+- The rung's first path is its top row. Each further path goes to the first
+  row below where it overlaps nothing and its vertical connectors cross no
+  other line; it joins the wires it bridges with vertical connectors, with
+  a dot where three or more conductors meet.
+- Each coil's row carries, right of the common rail, the rungs where the
+  coil's contacts are used: ``NO 2, 5  NC 7``.
+- A finding is matched to what it points at by file, line and column: an
+  element, or every rung element of a device whose tag or field it names.
+  The element gets an outline in the colour of its worst finding, and each
+  rule name is written under it, in lanes that never overlap.
+
+All text uses a monospaced face, so a label's width is known exactly
+(``text_width``) and the layout can keep labels apart.
+"""
+from __future__ import annotations
+
+import os
+from dataclasses import dataclass, field
+from typing import Iterable
+from xml.sax.saxutils import escape, quoteattr
+
+from .model import Diagnostic, Element, Location, Rung, Schematic, Severity, Supply
+
+# -- fonts and measures -----------------------------------------------------------
+
+MONO = "'DejaVu Sans Mono', Menlo, Consolas, 'Liberation Mono', monospace"
+SANS = "'DejaVu Sans', 'Helvetica Neue', Helvetica, Arial, sans-serif"
+# Advance width of one character of DejaVu Sans Mono, in ems (1233/2048).
+MONO_ADVANCE = 0.602
+
+SIZE_TITLE = 16
+SIZE_SUB = 11
+SIZE_TAG = 11       # element labels
+SIZE_WIRE = 10      # wire numbers
+SIZE_RUNG = 12      # rung numbers
+SIZE_XREF = 10
+SIZE_RULE = 9       # rule names under marked elements
+SIZE_CAPTION = 10
+SIZE_RAIL = 12
+
+LEFT_MARGIN = 64        # room for rung numbers left of the hot rail
+XREF_WIDTH = 196        # margin right of the common rail
+RIGHT_PAD = 16
+SYMBOL_HALF = 14        # every symbol fits in [cx - 14, cx + 14]
+TERMINAL_INSET = 18     # a wire end that is not a rail stays clear of it
+LABEL_ABOVE = 17        # element label baseline above the row line
+WIRE_ABOVE = 4          # wire number baseline above the row line
+ROW_TOP = 32            # from a row's top to its line
+ROW_BOTTOM = 18         # from a row's line to its bottom, without rule lanes
+LANE_FIRST = 27         # first rule-name baseline below the row line
+LANE_STEP = 11
+XREF_STEP = 13
+RUNG_GAP = 8
+CAPTION_HEIGHT = 16
+SECTION_HEAD = 40
+MIN_COLUMNS = 5
+TARGET_WIDTH = 1480
+MIN_COLUMN_WIDTH = 84
+MAX_COLUMN_WIDTH = 124
+
+# Font size by text class; written on every text element so that its box can be computed.
+TEXT_SIZE = {
+    "title": SIZE_TITLE, "sub": SIZE_SUB, "tag": SIZE_TAG, "letter": SIZE_TAG, "wire": SIZE_WIRE,
+    "rungno": SIZE_RUNG, "xref": SIZE_XREF, "caption": SIZE_CAPTION, "railname": SIZE_RAIL,
+    "supply": SIZE_SUB, "rule": SIZE_RULE, "legend": SIZE_SUB,
+}
+
+INK = "#1b1f24"
+WIRE_INK = "#1d5fa6"
+MUTED = "#5c6670"
+SEVERITY_COLOUR = {Severity.ERROR: "#c62828", Severity.WARNING: "#b26a00", Severity.INFO: "#1565c0"}
+SEVERITY_TINT = {Severity.ERROR: "#fdecea", Severity.WARNING: "#fff4e0", Severity.INFO: "#e8f1fb"}
+
+# Letters for loads that are neither coils nor lamps (a circle with a letter).
+LOAD_LETTER = {"solenoid": "S", "horn": "H", "plc-input": "I"}
+
+
+def text_width(text: str, size: float) -> float:
+    """Width in pixels of ``text`` set in the monospaced face at ``size``."""
+    return len(text) * size * MONO_ADVANCE
+
+
+def fit(text: str, size: float, width: float) -> str:
+    """``text`` shortened with an ellipsis so that it fits ``width``."""
+    if text_width(text, size) <= width:
+        return text
+    keep = max(1, int(width / (size * MONO_ADVANCE)) - 1)
+    return text[:keep] + "\u2026"
+
+
+def _n(value: float) -> str:
+    """A coordinate as short, stable text."""
+    text = f"{value:.1f}"
+    return text[:-2] if text.endswith(".0") else text
+
+
+# -- layout data -------------------------------------------------------------------
+
+@dataclass
+class Placed:
+    """An element placed in the drawing."""
+
+    element: Element
+    row: int                 # row index within the rung
+    left: str                # node on the drawing's left side (after orientation)
+    right: str
+    slot: int                # the symbol sits between columns slot and slot + 1
+    kind: str = ""
+    anchor: str = ""         # SVG id
+    findings: list[Diagnostic] = field(default_factory=list)
+    cx: float = 0.0
+    y: float = 0.0
+
+
+@dataclass
+class RowPath:
+    """One path as drawn: its row and its oriented nodes and elements."""
+
+    nodes: list[str]
+    placed: list[Placed]
+    row: int = 0
+
+
+@dataclass
+class RungLayout:
+    rung: Rung
+    supply: Supply | None
+    hot: str | None
+    common: str | None
+    paths: list[RowPath]
+    column: dict[str, int]          # node -> column
+    wire_of: dict[str, str]         # node -> wire name shown (nodes made for loops differ)
+    rows: int = 1
+    row_y: list[float] = field(default_factory=list)
+    top: float = 0.0
+    bottom: float = 0.0
+
+
+@dataclass
+class Section:
+    """Consecutive rungs on one supply, drawn between one pair of rails."""
+
+    supply: Supply | None
+    rungs: list[RungLayout]
+    top: float = 0.0
+    bottom: float = 0.0
+    findings: list[Diagnostic] = field(default_factory=list)
+
+
+@dataclass
+class Drawing:
+    """A laid-out schematic; ``svg`` is the drawing as text."""
+
+    svg: str
+    width: float
+    height: float
+    anchors: dict[Diagnostic, str]     # finding -> id of the thing it is drawn on
+    unplaced: list[Diagnostic]         # findings with nothing to mark in the drawing
+    element_ids: dict[int, str]        # Element.index -> SVG id
+
+
+# -- finding matching ----------------------------------------------------------------
+
+def _key(loc: Location) -> tuple[str, int, int]:
+    return (os.path.normpath(loc.path), loc.line, loc.column)
+
+
+def match_findings(sch: Schematic, diagnostics: Iterable[Diagnostic]) -> tuple[dict[int, list[Diagnostic]], dict[str, list[Diagnostic]], list[Diagnostic]]:
+    """Match findings to elements (by index) and supplies (by name).
+
+    A finding at an element's position marks that element; at a device's tag
+    or one of its fields (or a scenario step's tag), every rung element of
+    that device; at a supply, that supply's rails. The rest are returned as
+    unplaced.
+    """
+    by_element: dict[int, list[Diagnostic]] = {}
+    by_supply: dict[str, list[Diagnostic]] = {}
+    unplaced: list[Diagnostic] = []
+    elements_of: dict[str, list[Element]] = {}
+    targets: dict[tuple[str, int, int], list[tuple[str, object]]] = {}
+    for el in sch.elements:
+        elements_of.setdefault(el.tag, []).append(el)
+        targets.setdefault(_key(el.loc), []).append(("element", el))
+    for dev in sch.devices.values():
+        for loc in [dev.loc, *dev.field_locs.values()]:
+            targets.setdefault(_key(loc), []).append(("device", dev.tag))
+    for sup in sch.supplies.values():
+        for loc in [sup.loc, *sup.field_locs.values()]:
+            targets.setdefault(_key(loc), []).append(("supply", sup.name))
+    for scen in sch.expect:
+        for step in scen.steps:
+            for tag, loc in step.target_locs.items():
+                if tag:
+                    targets.setdefault(_key(loc), []).append(("device", tag))
+    for d in sorted(set(diagnostics)):
+        hits = targets.get((os.path.normpath(d.path), d.line, d.column), [])
+        marked: list[Element] = []
+        supplies: list[str] = []
+        for what, obj in hits:
+            if what == "element":
+                marked.append(obj)  # type: ignore[arg-type]
+            elif what == "device":
+                marked.extend(elements_of.get(obj, []))  # type: ignore[arg-type]
+            else:
+                supplies.append(obj)  # type: ignore[arg-type]
+        if not marked and not supplies:
+            unplaced.append(d)
+            continue
+        seen: set[int] = set()
+        for el in marked:
+            if el.index not in seen:
+                seen.add(el.index)
+                by_element.setdefault(el.index, []).append(d)
+        for name in supplies:
+            by_supply.setdefault(name, []).append(d)
+    return by_element, by_supply, unplaced
+
+
+# -- coil cross-references -------------------------------------------------------------
+
+@dataclass
+class CoilUse:
+    """Where a coil device's contacts are used, by rung number."""
+
+    tag: str
+    no: list[int]
+    nc: list[int]
+
+    def text(self) -> str:
+        parts = []
+        if self.no:
+            parts.append("NO " + ", ".join(map(str, self.no)))
+        if self.nc:
+            parts.append("NC " + ", ".join(map(str, self.nc)))
+        return "  ".join(parts) if parts else "no contacts used"
+
+
+def coil_uses(sch: Schematic) -> dict[str, CoilUse]:
+    """For each device whose kind has a coil: rung numbers of its NO and NC contacts.
+
+    A contact used twice in one rung is listed twice: each entry is one
+    contact.
+    """
+    numbers = {r.index: r.number for r in sch.rungs}
+    uses: dict[str, CoilUse] = {}
+    for el in sch.elements:
+        if el.part not in ("NO", "NC"):
+            continue
+        uses.setdefault(el.tag, CoilUse(el.tag, [], []))
+        (uses[el.tag].no if el.part == "NO" else uses[el.tag].nc).append(numbers[el.rung])
+    for use in uses.values():
+        use.no.sort()
+        use.nc.sort()
+    return uses
+
+
+# -- rung layout ---------------------------------------------------------------------
+
+def _rung_supply(sch: Schematic, rung: Rung, previous: Supply | None) -> Supply | None:
+    for path in rung.paths:
+        for wire in (path.wires[0], path.wires[-1], *path.wires):
+            sup = sch.supply_of_rail(wire)
+            if sup is not None:
+                return sup
+    return previous or next(iter(sch.supplies.values()), None)
+
+
+class _Graph:
+    """The rung as a directed graph drawn left to right."""
+
+    def __init__(self) -> None:
+        self.order: list[str] = []
+        self.succ: dict[str, list[str]] = {}
+        self.pred: dict[str, list[str]] = {}
+
+    def node(self, n: str) -> None:
+        if n not in self.succ:
+            self.order.append(n)
+            self.succ[n] = []
+            self.pred[n] = []
+
+    def reaches(self, start: str, goal: str) -> bool:
+        seen = {start}
+        stack = [start]
+        while stack:
+            n = stack.pop()
+            if n == goal:
+                return True
+            for s in self.succ[n]:
+                if s not in seen:
+                    seen.add(s)
+                    stack.append(s)
+        return False
+
+    def edge(self, a: str, b: str) -> None:
+        self.succ[a].append(b)
+        self.pred[b].append(a)
+
+    def topological(self) -> list[str]:
+        indeg = {n: len(self.pred[n]) for n in self.order}
+        ready = [n for n in self.order if indeg[n] == 0]
+        out: list[str] = []
+        while ready:
+            n = ready.pop(0)
+            out.append(n)
+            for s in self.succ[n]:
+                indeg[s] -= 1
+                if indeg[s] == 0:
+                    ready.append(s)
+        return out
+
+    def longest_from_left(self) -> dict[str, int]:
+        col: dict[str, int] = {}
+        for n in self.topological():
+            col[n] = max((col[p] + 1 for p in self.pred[n]), default=0)
+        return col
+
+
+@dataclass
+class _Chain:
+    """One path of the rung, in file order, with each node's graph name."""
+
+    nodes: list[str]
+    elements: list[Element]
+    edges: list[tuple[str, str]]   # per element: the graph edge, left to right
+
+
+def _plan_rung(sch: Schematic, rung: Rung, supply: Supply | None) -> tuple[RungLayout, _Graph, list[_Chain], set[str], dict[str, int]]:
+    hot = supply.hot if supply else None
+    common = supply.common if supply else None
+    g = _Graph()
+    wire_of: dict[str, str] = {}
+    chains: list[_Chain] = []
+    for pi, path in enumerate(rung.paths):
+        wires = list(path.wires)
+        elements = list(path.elements)
+        first, last = wires[0], wires[-1]
+        if last == hot or first == common or (
+            first != hot and last != common and first in g.succ and last in g.succ
+            and g.reaches(last, first) and not g.reaches(first, last)
+        ):
+            wires.reverse()
+            elements.reverse()
+        # An element joining a wire to itself ends on a second node, drawn as a
+        # terminal carrying the same wire number.
+        nodes: list[str] = []
+        for j, w in enumerate(wires):
+            n = f"{w}\u0000{pi}.{j}" if j and w == wires[j - 1] else w
+            g.node(n)
+            wire_of[n] = w
+            nodes.append(n)
+        edges = []
+        for j in range(len(elements)):
+            a, b = nodes[j], nodes[j + 1]
+            if b == hot or a == common or (a != hot and b != common and g.reaches(b, a)):
+                a, b = b, a
+            g.edge(a, b)
+            edges.append((a, b))
+        chains.append(_Chain(nodes, elements, edges))
+    col = g.longest_from_left()
+    # A load's right terminal, and every node after it, packs to the right.
+    right_side: set[str] = set()
+    stack = [e[1] for ch in chains for el, e in zip(ch.elements, ch.edges) if el.role == "load"]
+    while stack:
+        n = stack.pop()
+        if n not in right_side:
+            right_side.add(n)
+            stack.extend(g.succ[n])
+    lay = RungLayout(rung, supply, hot, common, [], col, wire_of)
+    return lay, g, chains, right_side, col
+
+
+def _finish_columns(lay: RungLayout, g: _Graph, chains: list[_Chain], right_side: set[str], asap: dict[str, int], last: int) -> None:
+    """Fix each node's column now that the drawing's width in columns is known,
+    and cut each path into runs that go left to right, one row segment each."""
+    alap: dict[str, int] = {}
+    for n in reversed(g.topological()):
+        if n in right_side:
+            alap[n] = min((alap[s] - 1 for s in g.succ[n] if s in alap), default=last)
+    column = {n: (alap[n] if n in right_side else asap[n]) for n in g.order}
+    if lay.hot in column:
+        column[lay.hot] = 0
+    if lay.common in column:
+        column[lay.common] = last
+    lay.column = column
+    for ch in chains:
+        segments: list[tuple[list[str], list[Element]]] = []
+        nodes, els = [ch.nodes[0]], []
+        direction = 0
+        for j, el in enumerate(ch.elements):
+            a, b = ch.nodes[j], ch.nodes[j + 1]
+            step = 1 if column[b] > column[a] else -1
+            if direction and step != direction:
+                segments.append((nodes, els))
+                nodes, els = [a], []
+            direction = step
+            nodes.append(b)
+            els.append(el)
+        segments.append((nodes, els))
+        for nodes, els in segments:
+            if column[nodes[-1]] < column[nodes[0]]:
+                nodes, els = nodes[::-1], els[::-1]
+            placed = []
+            for j, el in enumerate(els):
+                u, v = nodes[j], nodes[j + 1]
+                slot = column[v] - 1 if (el.role == "load" or u in right_side) else column[u]
+                placed.append(Placed(el, 0, u, v, slot))
+            lay.paths.append(RowPath(nodes, placed))
+
+
+def _assign_rows(lay: RungLayout) -> None:
+    """The first path on row 0; each further path on the first row where it fits cleanly.
+
+    "Cleanly": it overlaps nothing on that row, touches a neighbour only at
+    a shared wire, and its vertical connectors cross no row in between (nor
+    does its line cross another path's connector). Several orders of the
+    further paths are tried (file order, narrowest first, leftmost first) and
+    the one with the fewest crossings, then the fewest rows, is kept.
+    """
+    if len(lay.paths) <= 1:
+        for rp in lay.paths:
+            rp.row = 0
+            for p in rp.placed:
+                p.row = 0
+        lay.rows = 1
+        return
+    col = lay.column
+    first, rest = lay.paths[0], list(range(1, len(lay.paths)))
+    span = {i: (col[lay.paths[i].nodes[0]], col[lay.paths[i].nodes[-1]]) for i in range(len(lay.paths))}
+    orders = [rest,
+              sorted(rest, key=lambda i: (span[i][1] - span[i][0], i)),
+              sorted(rest, key=lambda i: (span[i][0], span[i][1], i))]
+    best: tuple[tuple[int, int], dict[int, int]] | None = None
+    for order in orders:
+        rows = _rows_in_order(lay, [0] + order)
+        score = (_crossings(lay, rows), max(rows.values()) + 1)
+        if best is None or score < best[0]:
+            best = (score, rows)
+    assert best is not None
+    rows = best[1]
+    for i, rp in enumerate(lay.paths):
+        rp.row = rows[i]
+        for p in rp.placed:
+            p.row = rows[i]
+    lay.rows = max(rows.values()) + 1
+
+
+def _rows_in_order(lay: RungLayout, order: list[int]) -> dict[int, int]:
+    col = lay.column
+    rails = {lay.hot, lay.common}
+    occupied: list[list[tuple[int, int, str, str]]] = []   # per row: (lo, hi, wire at lo, wire at hi)
+    wire_rows: dict[str, set[int]] = {}
+
+    def fits(row: int, lo: int, hi: int, wlo: str, whi: str) -> bool:
+        if row < len(occupied):
+            for a, b, wa, wb in occupied[row]:
+                if lo < b and a < hi:
+                    return False
+                if (hi == a and whi != wa) or (lo == b and wlo != wb):
+                    return False
+        for w in (wlo, whi):
+            if w in rails:
+                continue
+            c = col[w]
+            for other in wire_rows.get(w, ()):
+                for between in range(min(other, row) + 1, max(other, row)):
+                    if between < len(occupied) and any(a <= c <= b and w not in (wa, wb) for a, b, wa, wb in occupied[between]):
+                        return False
+        for w, rs in wire_rows.items():
+            if w not in rails and min(rs) < row < max(rs) and lo <= col[w] <= hi and w not in (wlo, whi):
+                return False
+        return True
+
+    rows: dict[int, int] = {}
+    for i in order:
+        rp = lay.paths[i]
+        wlo, whi = rp.nodes[0], rp.nodes[-1]
+        lo, hi = col[wlo], col[whi]
+        row = 0 if i == 0 else next((r for r in range(len(occupied) + 1) if fits(r, lo, hi, wlo, whi)), len(occupied))
+        while len(occupied) <= row:
+            occupied.append([])
+        occupied[row].append((lo, hi, wlo, whi))
+        rows[i] = row
+        for n in rp.nodes:
+            wire_rows.setdefault(n, set()).add(row)
+    return rows
+
+
+def _crossings(lay: RungLayout, rows: dict[int, int]) -> int:
+    """Vertical connectors that cross another path's line without joining it."""
+    col = lay.column
+    rails = {lay.hot, lay.common}
+    wire_rows: dict[str, set[int]] = {}
+    for i, rp in enumerate(lay.paths):
+        for n in rp.nodes:
+            wire_rows.setdefault(n, set()).add(rows[i])
+    count = 0
+    for w, rs in wire_rows.items():
+        if w in rails or len(rs) < 2:
+            continue
+        top, bottom = min(rs), max(rs)
+        for i, rp in enumerate(lay.paths):
+            if top < rows[i] < bottom and w not in rp.nodes and col[rp.nodes[0]] <= col[w] <= col[rp.nodes[-1]]:
+                count += 1
+    return count
+
+
+# -- the drawing -------------------------------------------------------------------
+
+class _Svg:
+    """Collects SVG text in order."""
+
+    def __init__(self) -> None:
+        self.parts: list[str] = []
+
+    def add(self, text: str) -> None:
+        self.parts.append(text)
+
+    def line(self, x1: float, y1: float, x2: float, y2: float, cls: str = "w") -> None:
+        self.add(f'<line class="{cls}" x1="{_n(x1)}" y1="{_n(y1)}" x2="{_n(x2)}" y2="{_n(y2)}"/>')
+
+    def text(self, x: float, y: float, text: str, cls: str, anchor: str = "start", extra: str = "") -> None:
+        a = "" if anchor == "start" else f' text-anchor="{anchor}"'
+        size = TEXT_SIZE[cls.split()[0]]
+        self.add(f'<text class="{cls}" x="{_n(x)}" y="{_n(y)}" font-size="{size}"{a}{extra}>{escape(text)}</text>')
+
+
+def _css(prefix: str) -> str:
+    p = f"#{prefix}drawing " if prefix else ""
+    rules = [
+        f"{p}.w{{stroke:{INK};stroke-width:1.6;fill:none;stroke-linecap:round}}",
+        f"{p}.rail{{stroke:{INK};stroke-width:3;fill:none}}",
+        f"{p}.sym{{stroke:{INK};stroke-width:1.8;fill:none;stroke-linecap:round}}",
+        f"{p}.symfill{{fill:#ffffff;stroke:{INK};stroke-width:1.8}}",
+        f"{p}.dot{{fill:{INK}}}",
+        f"{p}.term{{fill:#ffffff;stroke:{INK};stroke-width:1.4}}",
+        f"{p}text{{font-family:{MONO};white-space:pre}}",
+        f"{p}.tag{{fill:{INK};font-weight:bold}}",
+        f"{p}.letter{{fill:{INK};font-weight:bold}}",
+        f"{p}.wire{{fill:{WIRE_INK}}}",
+        f"{p}.rungno{{fill:{INK};font-weight:bold}}",
+        f"{p}.xref{{fill:{MUTED}}}",
+        f"{p}.caption{{fill:{MUTED};font-style:italic}}",
+        f"{p}.railname{{fill:{INK};font-weight:bold}}",
+        f"{p}.supply{{fill:{MUTED}}}",
+        f"{p}.title{{font-family:{SANS};fill:{INK};font-weight:bold}}",
+        f"{p}.sub{{fill:{MUTED}}}",
+        f"{p}.rule{{}}",
+        f"{p}.legend{{fill:{INK}}}",
+        f"{p}.band{{fill:#f6f8fa}}",
+        f"{p}.xrefline{{stroke:#c9d1d9;stroke-width:1;stroke-dasharray:2 3}}",
+    ]
+    for sev, colour in SEVERITY_COLOUR.items():
+        rules.append(f"{p}.sev-{sev}{{fill:{colour}}}")
+        rules.append(f"{p}.mark-{sev}{{stroke:{colour};stroke-width:2;fill:{SEVERITY_TINT[sev]};fill-opacity:0.85}}")
+    rules.append(f"{p}.el:target .outline,{p}.el.focus .outline{{stroke-width:4}}")
+    return "".join(rules)
+
+
+def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
+    """Draw the element's symbol centred at (cx, y), leads to cx +- SYMBOL_HALF."""
+    cx, y, h = p.cx, p.y, SYMBOL_HALF
+    role = p.element.role
+    part = p.element.part
+    if role == "contact":
+        svg.line(cx - h, y, cx - 5, y, "sym")
+        svg.line(cx + 5, y, cx + h, y, "sym")
+        svg.line(cx - 5, y - 10, cx - 5, y + 10, "sym")
+        svg.line(cx + 5, y - 10, cx + 5, y + 10, "sym")
+        if part == "NC":
+            svg.line(cx - 11, y + 10, cx + 11, y - 10, "sym")
+        if kind == "timer":  # timed contact: a small arc over the bars
+            svg.add(f'<path class="sym" d="M{_n(cx - 7)} {_n(y - 13)} Q{_n(cx)} {_n(y - 7)} {_n(cx + 7)} {_n(y - 13)}"/>')
+    elif role == "load":
+        svg.line(cx - h, y, cx - 11, y, "sym")
+        svg.line(cx + 11, y, cx + h, y, "sym")
+        svg.add(f'<circle class="symfill" cx="{_n(cx)}" cy="{_n(y)}" r="11"/>')
+        if kind == "pilot-light":
+            d = 7.8
+            svg.line(cx - d, y - d, cx + d, y + d, "sym")
+            svg.line(cx - d, y + d, cx + d, y - d, "sym")
+        elif part != "coil":
+            letter = LOAD_LETTER.get(kind, (kind[:1] or "?").upper())
+            svg.text(cx, y + 4, letter, "letter", "middle")
+        elif kind == "timer":  # a timer coil: a clock hand inside the circle
+            svg.line(cx, y, cx, y - 7, "sym")
+            svg.line(cx, y, cx + 5, y, "sym")
+    elif role == "conductor" and kind == "breaker":
+        svg.line(cx - h, y, cx - 11, y, "sym")
+        svg.line(cx + 11, y, cx + h, y, "sym")
+        svg.add(f'<circle class="symfill" cx="{_n(cx - 9)}" cy="{_n(y)}" r="2.2"/>')
+        svg.add(f'<circle class="symfill" cx="{_n(cx + 9)}" cy="{_n(y)}" r="2.2"/>')
+        svg.add(f'<path class="sym" d="M{_n(cx - 10)} {_n(y - 4)} Q{_n(cx)} {_n(y - 16)} {_n(cx + 10)} {_n(y - 4)}"/>')
+    elif role == "conductor":  # fuse: a small rectangle with the wire through it
+        svg.line(cx - h, y, cx + h, y, "sym")
+        svg.add(f'<rect class="sym" x="{_n(cx - 11)}" y="{_n(y - 5)}" width="22" height="10"/>')
+    elif role == "output":  # a PLC output: a contact in a box
+        svg.line(cx - h, y, cx - 11, y, "sym")
+        svg.line(cx + 11, y, cx + h, y, "sym")
+        svg.add(f'<rect class="sym" x="{_n(cx - 11)}" y="{_n(y - 11)}" width="22" height="22" rx="2"/>')
+        svg.line(cx - 11, y, cx - 4, y, "sym")
+        svg.line(cx + 4, y, cx + 11, y, "sym")
+        svg.line(cx - 4, y - 6, cx - 4, y + 6, "sym")
+        svg.line(cx + 4, y - 6, cx + 4, y + 6, "sym")
+    else:  # unknown device or part: a dashed box with a question mark
+        svg.line(cx - h, y, cx - 11, y, "sym")
+        svg.line(cx + 11, y, cx + h, y, "sym")
+        svg.add(f'<rect class="sym" x="{_n(cx - 11)}" y="{_n(y - 9)}" width="22" height="18" stroke-dasharray="3 2"/>')
+        svg.text(cx, y + 4, "?", "letter", "middle")
+
+
+def _element_label(el: Element) -> str:
+    if el.part in (None, "NO", "NC", "coil"):
+        return el.tag
+    return el.text
+
+
+@dataclass
+class _Lane:
+    x0: float
+    x1: float
+    text: str
+    diag: Diagnostic
+    placed: Placed
+    lane: int = 0
+
+
+def _place_rule_labels(labels: list[_Lane], obstacles: list[float], x_min: float, x_max: float) -> int:
+    """Give each rule label a lane (0, 1, ...) so that no two overlap; return the lane count."""
+    lanes: list[list[tuple[float, float]]] = []
+    for lab in labels:
+        width = lab.x1 - lab.x0
+        centre = lab.placed.cx
+        # Keep clear of vertical connectors going down from the row, when the label fits between them.
+        left = max([x for x in obstacles if x < centre] + [x_min - 4]) + 4
+        right = min([x for x in obstacles if x > centre] + [x_max + 4]) - 4
+        x0 = centre - width / 2
+        if width <= right - left:
+            x0 = min(max(x0, left), right - width)
+        else:
+            x0 = min(max(x0, x_min), x_max - width)
+        lab.x0, lab.x1 = x0, x0 + width
+        for i, taken in enumerate(lanes):
+            if all(lab.x1 + 6 <= a or b + 6 <= lab.x0 for a, b in taken):
+                taken.append((lab.x0, lab.x1))
+                lab.lane = i
+                break
+        else:
+            lanes.append([(lab.x0, lab.x1)])
+            lab.lane = len(lanes) - 1
+    return len(lanes)
+
+
+def _wrap(text: str, size: float, width: float) -> list[str]:
+    """Break ``text`` at spaces into lines no wider than ``width``."""
+    per_line = max(8, int(width / (size * MONO_ADVANCE)))
+    lines: list[str] = []
+    current = ""
+    for word in text.split(" "):
+        while len(word) > per_line:
+            if current:
+                lines.append(current)
+                current = ""
+            lines.append(word[:per_line])
+            word = word[per_line:]
+        candidate = f"{current} {word}" if current else word
+        if len(candidate) <= per_line:
+            current = candidate
+        else:
+            lines.append(current)
+            current = word
+    if current or not lines:
+        lines.append(current)
+    return lines
+
+
+def _xref_lines(uses: list[CoilUse], width: float) -> list[tuple[str, str]]:
+    """The margin text for the coils of one row, as (coil tag, line) pairs.
+
+    One line per coil when it fits (``NO 2, 5  NC 7``), else NO and NC on
+    lines of their own, wrapped after a comma. Where a row holds more than
+    one coil, each coil's lines start with its tag.
+    """
+    out: list[tuple[str, str]] = []
+    for use in uses:
+        prefix = f"{use.tag}: " if len(uses) > 1 else ""
+        one = prefix + use.text()
+        if text_width(one, SIZE_XREF) <= width:
+            out.append((use.tag, one))
+            continue
+        pad = " " * len(prefix)
+        first = True
+        for name, numbers in (("NO", use.no), ("NC", use.nc)):
+            if not numbers:
+                continue
+            text = f"{name} " + ", ".join(map(str, numbers))
+            for k, line in enumerate(_wrap(text, SIZE_XREF, width - text_width(prefix + "   ", SIZE_XREF))):
+                out.append((use.tag, (prefix if first else pad) + ("   " if k else "") + line))
+                first = False
+    return out
+
+
+def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: str = "", legend: bool = True,
+           finding_links: dict[Diagnostic, str] | None = None, header: bool = True) -> Drawing:
+    """Lay out and draw ``sch`` with ``diagnostics`` marked on their elements.
+
+    ``id_prefix`` starts every id in the SVG, so that several drawings can
+    share one HTML page. ``legend`` adds the list of findings (and the
+    safety note) under the drawing, for a drawing that stands alone.
+    ``finding_links`` maps findings to ids elsewhere on the page: the rule
+    names drawn for them become links there. ``header`` writes the title,
+    path and finding counts above the drawing.
+    """
+    links = finding_links or {}
+    diagnostics = sorted(set(diagnostics))
+    by_element, by_supply, unplaced = match_findings(sch, diagnostics)
+    uses = coil_uses(sch)
+    pre = id_prefix
+
+    # Sections and rung plans.
+    plans = []
+    previous: Supply | None = None
+    for rung in sch.rungs:
+        sup = _rung_supply(sch, rung, previous)
+        previous = sup
+        plans.append(_plan_rung(sch, rung, sup))
+    widest = max([MIN_COLUMNS] + [max(plan[-1].values(), default=0) for plan in plans])
+    last = widest
+    layouts: list[RungLayout] = []
+    for lay, g, chains, right_side, asap in plans:
+        _finish_columns(lay, g, chains, right_side, asap, last)
+        _assign_rows(lay)
+        layouts.append(lay)
+
+    # Horizontal measures. The column width leaves room for the widest element label.
+    col_w = (TARGET_WIDTH - LEFT_MARGIN - XREF_WIDTH - RIGHT_PAD) / last
+    col_w = max(MIN_COLUMN_WIDTH, min(MAX_COLUMN_WIDTH, col_w))
+    rail_l = LEFT_MARGIN
+    rail_r = rail_l + last * col_w
+    width = rail_r + XREF_WIDTH + RIGHT_PAD
+
+    def node_x(lay: RungLayout, node: str) -> float:
+        c = lay.column[node]
+        x = rail_l + c * col_w
+        if c == 0 and node != lay.hot:
+            x += TERMINAL_INSET
+        if c == last and node != lay.common:
+            x -= TERMINAL_INSET
+        return x
+
+    kinds = {tag: dev.kind for tag, dev in sch.devices.items()}
+    element_ids: dict[int, str] = {}
+    anchors: dict[Diagnostic, str] = {}
+    for lay in layouts:
+        for rp in lay.paths:
+            for p in rp.placed:
+                p.kind = kinds.get(p.element.tag, "")
+                p.cx = rail_l + (p.slot + 0.5) * col_w
+                p.anchor = f"{pre}el-{p.element.index}"
+                p.findings = by_element.get(p.element.index, [])
+                element_ids[p.element.index] = p.anchor
+                for d in p.findings:
+                    anchors.setdefault(d, p.anchor)
+
+    # Coils per row, for the cross-reference margin.
+    def row_coils(lay: RungLayout, row: int) -> list[CoilUse]:
+        out = []
+        for rp in lay.paths:
+            if rp.row != row:
+                continue
+            for p in rp.placed:
+                if p.element.part == "coil":
+                    out.append(uses.get(p.element.tag, CoilUse(p.element.tag, [], [])))
+        return out
+
+    # Vertical measures, top to bottom.
+    svg_body = _Svg()
+    y = 0.0
+    head = _Svg()
+    title = sch.title or os.path.basename(sch.path)
+    if header:
+        head.text(rail_l - 40, 26, fit(title, SIZE_TITLE, width - rail_l), "title")
+        counts = {s: sum(1 for d in diagnostics if d.severity == s) for s in Severity}
+        sub = f"{sch.path}  \u00b7  {len(sch.rungs)} rung{'s' * (len(sch.rungs) != 1)}  \u00b7  {counts[Severity.ERROR]} error{'s' * (counts[Severity.ERROR] != 1)}, {counts[Severity.WARNING]} warning{'s' * (counts[Severity.WARNING] != 1)}, {counts[Severity.INFO]} info"
+        head.text(rail_l - 40, 44, fit(sub, SIZE_SUB, width - rail_l), "sub")
+        y = 60.0
+    else:
+        y = 8.0
+
+    sections: list[Section] = []
+    for lay in layouts:
+        if not sections or sections[-1].supply is not lay.supply:
+            sections.append(Section(lay.supply, []))
+        sections[-1].rungs.append(lay)
+    if not sections:
+        head.text(rail_l, y + 20, "no rungs" + (" (a shared device file)" if sch.device_file else ""), "caption")
+        y += 40
+
+    rule_labels: dict[tuple[int, int], list[_Lane]] = {}
+    for sec in sections:
+        sec.top = y
+        sec.findings = by_supply.get(sec.supply.name, []) if sec.supply else []
+        y += SECTION_HEAD + len(sec.findings) * LANE_STEP
+        for lay in sec.rungs:
+            lay.top = y
+            y += 4
+            if lay.rung.title or lay.rung.note:
+                y += CAPTION_HEIGHT
+            lay.row_y = []
+            for row in range(lay.rows):
+                line_y = y + ROW_TOP
+                lay.row_y.append(line_y)
+                # Rule-name lanes under the row.
+                labels = []
+                for rp in lay.paths:
+                    if rp.row != row:
+                        continue
+                    for p in rp.placed:
+                        p.y = line_y
+                        for d in p.findings:
+                            labels.append(_Lane(0, text_width(d.rule, SIZE_RULE), d.rule, d, p))
+                labels.sort(key=lambda lab: (lab.placed.cx, lab.diag.severity * -1, lab.text))
+                below = sorted({node_x(lay, n) for rp in lay.paths if rp.row == row for n in rp.nodes
+                                if n not in (lay.hot, lay.common) and any(o.row > row and n in o.nodes for o in lay.paths)})
+                lanes = _place_rule_labels(labels, below, rail_l + 6, rail_r - 6)
+                rule_labels[(id(lay), row)] = labels
+                bottom = line_y + ROW_BOTTOM + (LANE_FIRST - ROW_BOTTOM + 4 + (lanes - 1) * LANE_STEP if lanes else 0)
+                xlines = _xref_lines(row_coils(lay, row), XREF_WIDTH - 24)
+                if xlines:
+                    bottom = max(bottom, line_y + 4 + (len(xlines) - 1) * XREF_STEP + 8)
+                y = bottom
+            lay.bottom = y + RUNG_GAP
+            y = lay.bottom
+        sec.bottom = y
+        for d in sec.findings:
+            anchors.setdefault(d, f"{pre}supply-{sec.supply.name}")
+        y += 12
+
+    # -- write ---------------------------------------------------------------------
+    wire_rungs: dict[str, list[int]] = {}
+    for rung in sch.rungs:
+        for path in rung.paths:
+            for w in path.wires:
+                if rung.number not in wire_rungs.setdefault(w, []):
+                    wire_rungs[w].append(rung.number)
+    svg = svg_body
+    for i, sec in enumerate(sections):
+        sup = sec.supply
+        head_h = SECTION_HEAD + len(sec.findings) * LANE_STEP
+        rail_top = sec.top + head_h - 6
+        sid = f' id="{pre}supply-{sup.name}"' if sup and not any(s.supply is sup for s in sections[:i]) else ""
+        attrs = f' data-supply={quoteattr(sup.name)} data-hot={quoteattr(sup.hot)} data-common={quoteattr(sup.common)}' if sup else ""
+        svg.add(f'<g class="section"{sid}{attrs}>')
+        if sec.findings:
+            worst = max(d.severity for d in sec.findings)
+            svg.add(f'<rect class="outline mark-{worst}" x="{_n(rail_l - 30)}" y="{_n(sec.top + 2)}" width="{_n(rail_r - rail_l + 60)}" height="{_n(head_h - 12)}" rx="4"/>')
+        if sup:
+            svg.text(rail_l, sec.top + 20, sup.hot, "railname", "middle", f' data-rail="hot"')
+            svg.text(rail_r, sec.top + 20, sup.common, "railname", "middle", f' data-rail="common"')
+            label = f"{sup.name} \u00b7 {sup.voltage.text}" + (f" \u00b7 from {sup.source}" if sup.source else "")
+            svg.text((rail_l + rail_r) / 2, sec.top + 20, fit(label, SIZE_SUB, rail_r - rail_l - 80), "supply", "middle")
+            for k, d in enumerate(sec.findings):
+                svg.text((rail_l + rail_r) / 2, sec.top + 33 + k * LANE_STEP, d.rule, f"rule sev-{d.severity}", "middle", f' data-rule="{d.rule}"')
+        svg.line(rail_l, rail_top, rail_l, sec.bottom, "rail")
+        svg.line(rail_r, rail_top, rail_r, sec.bottom, "rail")
+        svg.add("</g>")
+        for lay in sec.rungs:
+            _draw_rung(svg, lay, node_x, rail_l, rail_r, col_w, rule_labels, row_coils, pre, links, wire_rungs)
+
+    # Legend: every finding, and the safety note.
+    legend_svg = _Svg()
+    if legend:
+        x0 = rail_l - 40
+        room = width - RIGHT_PAD - x0
+        y += 8
+        legend_svg.line(x0, y, width - RIGHT_PAD, y, "xrefline")
+        y += 20
+        if diagnostics:
+            legend_svg.text(x0, y, "Findings", "legend", extra=' font-weight="bold"')
+            y += 16
+            for d in diagnostics:
+                where = "" if d in anchors else "  (not on the drawing)"
+                line = f"{d.line}:{d.column}  {d.severity}  [{d.rule}]  {d.message}{where}"
+                for k, text in enumerate(_wrap(line, SIZE_SUB, room - 24)):
+                    extra = f' data-finding-line="{d.line}" data-rule="{d.rule}"' if k == 0 else ""
+                    legend_svg.text(x0 + (24 if k else 0), y, text, "legend", extra=extra)
+                    y += 15
+            y += 6
+        from .report import SAFETY_NOTE
+
+        for text in _wrap(SAFETY_NOTE, SIZE_SUB, room):
+            legend_svg.text(x0, y, text, "sub")
+            y += 15
+    height = y + 12
+
+    out = [
+        f'<svg xmlns="http://www.w3.org/2000/svg" xml:space="preserve" id="{pre}drawing" class="ctllint-drawing" width="{_n(width)}" height="{_n(height)}" viewBox="0 0 {_n(width)} {_n(height)}" data-path={quoteattr(sch.path)} data-columns="{last}">',
+        f"<title>{escape(title)}</title>",
+        f"<style>{_css(pre)}</style>",
+        f'<rect x="0" y="0" width="{_n(width)}" height="{_n(height)}" fill="#ffffff"/>',
+        *head.parts,
+        *svg.parts,
+        *legend_svg.parts,
+        "</svg>",
+    ]
+    return Drawing("\n".join(out) + "\n", width, height, anchors, [d for d in unplaced if d not in anchors], element_ids)
+
+
+def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float, col_w: float,
+               rule_labels: dict[tuple[int, int], list[_Lane]], row_coils, pre: str, links: dict[Diagnostic, str],
+               wire_rungs: dict[str, list[int]]) -> None:
+    rung = lay.rung
+    attrs = f' data-rung="{rung.number}" data-line="{rung.loc.line}"'
+    svg.add(f'<g class="rung" id="{pre}rung-{rung.number}"{attrs}>')
+    if rung.index % 2 == 1:
+        svg.add(f'<rect class="band" x="{_n(rail_l + 1.5)}" y="{_n(lay.top)}" width="{_n(rail_r - rail_l - 3)}" height="{_n(lay.bottom - lay.top)}"/>')
+    svg.text(rail_l - 12, lay.row_y[0] + 4, str(rung.number), "rungno", "end")
+    if rung.title or rung.note:
+        caption = " \u2014 ".join(t for t in (rung.title, rung.note) if t)
+        svg.text(rail_l + 10, lay.top + 4 + 11, fit(caption, SIZE_CAPTION, rail_r - rail_l - 20), "caption")
+
+    # Which rows each node appears on, and on which sides of it the row's line runs.
+    rows_of: dict[str, list[int]] = {}
+    sides: dict[tuple[str, int], set[str]] = {}
+    for rp in lay.paths:
+        for k, n in enumerate(rp.nodes):
+            rows_of.setdefault(n, [])
+            if rp.row not in rows_of[n]:
+                rows_of[n].append(rp.row)
+            s = sides.setdefault((n, rp.row), set())
+            if k > 0:
+                s.add("left")
+            if k < len(rp.nodes) - 1:
+                s.add("right")
+
+    # Wires: on each row, the runs between symbols. A run is one wire; runs of
+    # one wire that meet on a row (two segments touching at a node) are one run.
+    runs: dict[tuple[int, str], list[float]] = {}
+    for rp in lay.paths:
+        k_last = len(rp.nodes) - 1
+        for k, node in enumerate(rp.nodes):
+            x = node_x(lay, node)
+            lo = x if k == 0 else rp.placed[k - 1].cx + SYMBOL_HALF
+            hi = x if k == k_last else rp.placed[k].cx - SYMBOL_HALF
+            span = runs.setdefault((rp.row, node), [x, x])
+            span[0], span[1] = min(span[0], lo), max(span[1], hi)
+    for (row, node), (lo, hi) in runs.items():
+        y = lay.row_y[row]
+        if hi - lo > 0.05:
+            svg.line(lo, y, hi, y)
+        if node in (lay.hot, lay.common):
+            continue
+        wire = lay.wire_of[node]
+        x = node_x(lay, node)
+        # Keep the number clear of a connector rising from this point.
+        if any(r < row for r in rows_of.get(node, [])):
+            if hi - x >= x - lo:
+                lo = x
+            else:
+                hi = x
+        svg.text((lo + hi) / 2, y - WIRE_ABOVE, wire, "wire", "middle", f' data-wire={quoteattr(wire)} data-rung="{rung.number}"')
+
+    # Vertical connectors, junction dots, terminals.
+    for node, rows in rows_of.items():
+        if node in (lay.hot, lay.common):
+            for r in rows:
+                x = rail_l if node == lay.hot else rail_r
+                svg.add(f'<circle class="dot" cx="{_n(x)}" cy="{_n(lay.row_y[r])}" r="2.6"/>')
+            continue
+        x = node_x(lay, node)
+        if len(rows) > 1:
+            top, bottom = min(rows), max(rows)
+            svg.line(x, lay.row_y[top], x, lay.row_y[bottom], "w")
+            for r in rows:
+                degree = len(sides[(node, r)]) + (r > top) + (r < bottom)
+                if degree >= 3:
+                    svg.add(f'<circle class="dot" cx="{_n(x)}" cy="{_n(lay.row_y[r])}" r="2.6"/>')
+        else:
+            r = rows[0]
+            if len(sides[(node, r)]) == 1:  # a wire end that joins nothing in this rung
+                wire = lay.wire_of[node]
+                elsewhere = [n for n in wire_rungs.get(wire, []) if n != rung.number]
+                note = f"wire {wire}" + (f", also in rung{'s' * (len(elsewhere) > 1)} {', '.join(map(str, elsewhere))}" if elsewhere else ", joins nothing else")
+                svg.add(f'<circle class="term" cx="{_n(x)}" cy="{_n(lay.row_y[r])}" r="3.2" data-terminal={quoteattr(wire)}><title>{escape(note)}</title></circle>')
+
+    # Elements.
+    for rp in lay.paths:
+        for p in rp.placed:
+            el = p.element
+            label = fit(_element_label(el), SIZE_TAG, col_w - 8)
+            rules = " ".join(d.rule for d in p.findings)
+            data = (f' data-element={quoteattr(el.text)} data-tag={quoteattr(el.tag)} data-part={quoteattr(el.part or "")}'
+                    f' data-role="{el.role or "unknown"}" data-kind={quoteattr(p.kind)} data-rung="{rung.number}"'
+                    f' data-line="{el.loc.line}" data-column="{el.loc.column}" data-wires={quoteattr(el.left + " " + el.right)}')
+            if rules:
+                worst = max(d.severity for d in p.findings)
+                data += f' data-findings={quoteattr(rules)} data-severity="{worst}"'
+            svg.add(f'<g class="el" id="{p.anchor}"{data}>')
+            svg.add(f"<title>{escape(el.text)} (line {el.loc.line}, wires {escape(el.left)}\u2013{escape(el.right)})</title>")
+            if p.findings:
+                worst = max(d.severity for d in p.findings)
+                w = max(2 * SYMBOL_HALF + 12, text_width(label, SIZE_TAG) + 10)
+                svg.add(f'<rect class="outline mark-{worst}" x="{_n(p.cx - w / 2)}" y="{_n(p.y - 29)}" width="{_n(w)}" height="44" rx="5"/>')
+            _symbol(svg, p, p.kind)
+            svg.text(p.cx, p.y - LABEL_ABOVE, label, "tag", "middle")
+            svg.add("</g>")
+
+    # Rule names under marked elements.
+    for r in range(lay.rows):
+        for lab in rule_labels.get((id(lay), r), []):
+            d = lab.diag
+            y = lay.row_y[r] + LANE_FIRST + lab.lane * LANE_STEP
+            tag = "a" if d in links else "g"
+            href = f' href="#{links[d]}"' if d in links else ""
+            svg.add(f'<{tag} class="finding"{href} data-rule="{d.rule}" data-severity="{d.severity}" data-line="{d.line}" data-column="{d.column}" data-for="{lab.placed.anchor}">'
+                    f"<title>{escape(f'{d.severity}: {d.message} [{d.rule}]')}</title>")
+            svg.text(lab.x0, y, d.rule, f"rule sev-{d.severity}")
+            svg.add(f"</{tag}>")
+
+    # Coil cross-references, right of the common rail.
+    for r in range(lay.rows):
+        coils = row_coils(lay, r)
+        if not coils:
+            continue
+        lines = _xref_lines(coils, XREF_WIDTH - 24)
+        y = lay.row_y[r]
+        svg.line(rail_r + 4, y, rail_r + 14, y, "xrefline")
+        for k, (tag, text) in enumerate(lines):
+            use = next(u for u in coils if u.tag == tag)
+            data = f' data-coil={quoteattr(tag)} data-no="{",".join(map(str, use.no))}" data-nc="{",".join(map(str, use.nc))}"'
+            svg.text(rail_r + 18, y + 4 + k * XREF_STEP, text, "xref", extra=data if k == 0 or lines[k - 1][0] != tag else f' data-coil={quoteattr(tag)}')
+    svg.add("</g>")
+
+
+def render_svg(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: str = "", legend: bool = True) -> str:
+    """The SVG drawing of ``sch`` as text."""
+    return layout(sch, diagnostics, id_prefix, legend).svg

@@ -1,0 +1,778 @@
+"""Motor control: the habits of three-wire relay logic, checked on the circuit graph.
+
+These rules look at how stop, start, overload, interlock and emergency-stop
+contacts sit around the coils they govern, the way a controls engineer reads
+a ladder: stop buttons normally closed and in series, the overload contact in
+series with its starter's coil, a seal-in around the start button, reversing
+pairs interlocked, an emergency stop that latches and drops every contactor,
+no contactor that restarts a motor by itself when power returns, and no coil
+that switches itself off.
+
+Every rule asks the shared circuit analyses (``ctx.circuit``) whether a coil
+has an energizing path with some elements taken out; none enumerates paths,
+so each check stays linear in the size of the circuit per question asked.
+
+Choices where the catalogue leaves room:
+
+- ``stop-in-series`` and ``interlock`` look at coils (``X.coil``), not at
+  lights or solenoids. The message of ``stop-in-series`` names the part of
+  the bypassing path on the stop's side of the coil.
+- ``seal-in``: a NO contact of the coil's own device "bypasses" the start
+  contact when the two lie on a common loop of non-load wiring (the same
+  biconnected component once the loads are taken out) and the contact serves
+  the coil. The stop and overload contacts that must stay in series are the
+  ones in series with the coil while its own NO contacts are open (the
+  circuit as the start button sees it); so a seal wired around the stop as
+  well as the start fails, while two stop buttons wired in parallel are left
+  to ``stop-in-series``.
+- ``interlock`` treats the pair as symmetric: when M1F names M1R, both coils
+  need the other's NC contact in series, each reported at its own coil.
+- ``auto-restart``: a spring-return selector is a momentary device (only its
+  rest position can be closed at power return); device kinds that a plugin
+  adds, and elements of unknown devices, count as open.
+- ``oscillation`` fires when a coil's own NC contact serves the coil (lies on
+  at least one energizing path), not only when it is in series: whenever
+  that path alone feeds the coil, it chatters. The exception is an own NO
+  contact that also serves the coil and lies on a common loop of wiring with
+  the NC (as in a changeover): it takes over as the NC opens. Timers are
+  left out: a timer's own timed NC contact in its coil circuit is the usual
+  recycling (pulse) timer, which switches once per preset rather than
+  chattering. The simulator is also run from rest, and a circuit that does
+  not settle there is reported at the first coil that keeps switching, when
+  no own-NC finding already covers it.
+- ``emergency-stop``: "its supply" is the supply of the loads its contacts
+  serve. A coil is governed when every energizing path passes a contact of
+  the emergency stop or a NO contact of a relay, timer, contactor or starter
+  whose coil is governed (a master control relay, or a chain of them). The
+  momentary, NO and governing problems of one device are given in one
+  finding at its tag.
+- ``switch-fan-out`` counts the inductive loads a contact serves directly
+  (a relay coil it drives counts once, whatever that relay switches). The
+  two coils of an interlock pair count as one only where each has an NC
+  contact of the other on every energizing path.
+"""
+from __future__ import annotations
+
+from typing import Iterable, Iterator
+
+import networkx as nx
+
+from ctllint import hookimpl
+from ctllint.api import CheckContext, Example, Finding, Option, Rule
+from ctllint.kinds import BUILTIN_KINDS, LOAD
+from ctllint.model import Element, Severity
+
+_KINDS = {k.name: k for k in BUILTIN_KINDS}
+COIL_KINDS = ("relay", "timer", "contactor", "starter")
+CONTACTOR_KINDS = ("contactor", "starter")
+STOP_FUNCTIONS = ("stop", "emergency-stop")
+
+
+# ---------------------------------------------------------------------------
+# small helpers
+
+
+def _device(ctx: CheckContext, tag: str):
+    return ctx.schematic.devices.get(tag)
+
+
+def _subject(ctx: CheckContext, el: Element) -> str:
+    rungs = ctx.schematic.rungs
+    number = rungs[el.rung].number if 0 <= el.rung < len(rungs) else el.rung + 1
+    return f"{el.text}@rung{number}"
+
+
+def _is_stop_device(dev) -> bool:
+    return dev is not None and dev.kind == "pushbutton" and dev.get("function") in STOP_FUNCTIONS
+
+
+def _is_momentary_pushbutton(dev) -> bool:
+    return dev is not None and dev.kind == "pushbutton" and (dev.get("action") or "momentary") == "momentary"
+
+
+def _is_mechanical(dev) -> bool:
+    kind = _KINDS.get(dev.kind) if dev is not None else None
+    return bool(kind and kind.mechanical)
+
+
+def _coils(ctx: CheckContext, tag: str) -> list[Element]:
+    return [e for e in ctx.circuit.elements_of(tag) if e.part == "coil" and e.role == LOAD]
+
+
+def _contacts(ctx: CheckContext, tag: str, part: str | None = None) -> list[Element]:
+    return [e for e in ctx.circuit.elements_of(tag) if e.role == "contact" and (part is None or e.part == part)]
+
+
+def _coil_loads(ctx: CheckContext) -> list[Element]:
+    """Coil elements of relays, timers, contactors and starters, in file order."""
+    out = []
+    for load in ctx.circuit.loads:
+        dev = _device(ctx, load.tag)
+        if load.part == "coil" and dev is not None and dev.kind in COIL_KINDS:
+            out.append(load)
+    return out
+
+
+def _walk(path: list[Element], load: Element, ctx: CheckContext) -> list[str]:
+    """Wires and element names of ``path`` in order from the hot rail, alternating."""
+    if not path:
+        return []
+    supply = ctx.circuit.supply_of(load)
+    first = path[0]
+    wire = supply.hot if supply is not None and supply.hot in (first.left, first.right) else first.left
+    items = [wire]
+    for el in path:  # the same walk as ctllint.circuit.path_text, kept as a list to split at the load
+        wire = el.right if el.left == wire else el.left
+        items += [el.text, wire]
+    return items
+
+
+def _path_text(path: list[Element] | None, load: Element, ctx: CheckContext) -> str:
+    return "-".join(_walk(path or [], load, ctx))
+
+
+def _wire_groups(ctx: CheckContext) -> dict[str, str]:
+    """Wires joined through non-load elements: wire -> representative (union-find)."""
+    parent: dict[str, str] = {}
+
+    def find(w: str) -> str:
+        parent.setdefault(w, w)
+        while parent[w] != w:
+            parent[w] = parent[parent[w]]
+            w = parent[w]
+        return w
+
+    for el in ctx.schematic.elements:
+        a, b = find(el.left), find(el.right)
+        if el.role and el.role != LOAD and a != b:
+            parent[a] = b
+    return {w: find(w) for w in list(parent)}
+
+
+def _side_text(path: list[Element], load: Element, near: Element, ctx: CheckContext, groups: dict[str, str]) -> str:
+    """The part of ``path`` on the same side of ``load`` as element ``near``.
+
+    Two sides of a coil are joined only through loads, so the wires of each
+    side fall in different groups of non-load wiring; the side whose group
+    holds ``near`` is the one that matters to the reader.
+    """
+    items = _walk(path, load, ctx)
+    if load.text not in items:
+        return "-".join(items)
+    at = items.index(load.text)
+    hot_side, common_side = items[:at], items[at + 1:]
+    group = groups.get(near.left)
+    if group is not None and any(groups.get(w) == group for w in hot_side[0::2]):
+        return "-".join(hot_side)
+    if group is not None and any(groups.get(w) == group for w in common_side[0::2]):
+        return "-".join(common_side)
+    return "-".join(items)
+
+
+def _names(elements: Iterable[Element]) -> str:
+    return ", ".join(e.text for e in elements)
+
+
+# ---------------------------------------------------------------------------
+# stop-normally-closed
+
+
+def check_stop_normally_closed(ctx: CheckContext) -> Iterator[Finding]:
+    for el in ctx.schematic.elements:
+        dev = _device(ctx, el.tag)
+        if el.role != "contact" or el.part != "NO" or not _is_stop_device(dev):
+            continue
+        what = "emergency stop" if dev.get("function") == "emergency-stop" else "stop button"
+        yield Finding(
+            el.loc,
+            f"{what} {el.tag} is used through its NO contact {el.text}: a broken wire or a dirty contact "
+            f"would keep it from stopping; wire its NC contact in series with the coils it stops",
+            _subject(ctx, el),
+        )
+
+
+# ---------------------------------------------------------------------------
+# stop-in-series
+
+
+def check_stop_in_series(ctx: CheckContext) -> Iterator[Finding]:
+    circuit = ctx.circuit
+    coils = _coil_loads(ctx)
+    groups: dict[str, str] | None = None
+    for tag, dev in ctx.schematic.devices.items():
+        if not _is_stop_device(dev):
+            continue
+        stop_elements = circuit.elements_of(tag)
+        if not stop_elements:
+            continue
+        served: dict[int, Element] = {}  # coil index -> the first of the stop's contacts serving it
+        for el in stop_elements:
+            for load in circuit.served_loads(el):
+                served.setdefault(load.index, el)
+        for coil in coils:
+            stop = served.get(coil.index)
+            if stop is None:
+                continue
+            path = circuit.energizing_path(coil, without=stop_elements)
+            if path is None:
+                continue
+            if groups is None:
+                groups = _wire_groups(ctx)
+            what = "emergency stop" if dev.get("function") == "emergency-stop" else "stop button"
+            yield Finding(
+                stop.loc,
+                f"coil {coil.tag} can be energized without passing {what} {tag} "
+                f"(path {_side_text(path, coil, stop, ctx, groups)}): wire every path to the coil through "
+                f"{tag}, with the seal-in and other start contacts after it",
+                f"{stop.text}@{coil.text}",
+            )
+
+
+# ---------------------------------------------------------------------------
+# overload-in-coil-path
+
+
+def check_overload_in_coil_path(ctx: CheckContext) -> Iterator[Finding]:
+    circuit = ctx.circuit
+    for tag, dev in ctx.schematic.devices.items():
+        if dev.kind not in CONTACTOR_KINDS:
+            continue
+        ol = dev.get("overload")
+        ol_dev = _device(ctx, ol) if ol else None
+        if ol_dev is None or ol_dev.kind != "overload":
+            continue
+        ol_nc = _contacts(ctx, ol, "NC")
+        for coil in _coils(ctx, tag):
+            path = circuit.energizing_path(coil, without=ol_nc)
+            if path is None:
+                continue
+            if ol_nc:
+                why = f"without an NC contact of its overload relay {ol} (path {_path_text(path, coil, ctx)})"
+            else:
+                why = f"and no NC contact of its overload relay {ol} is used in any rung"
+            yield Finding(
+                coil.loc,
+                f"{dev.kind} coil {coil.text} can be energized {why}: wire {ol}.NC in series with the coil, "
+                f"so that an overload trip drops the {dev.kind}",
+                _subject(ctx, coil),
+            )
+
+
+# ---------------------------------------------------------------------------
+# seal-in
+
+
+def _block_of(ctx: CheckContext) -> dict[int, int]:
+    """Element index -> biconnected component of the non-load wiring.
+
+    Two elements in one component lie on a common loop of wiring that passes
+    no load, which is what "one contact bypasses the other" means on a
+    drawing. Parallel elements between the same two wires are one loop.
+    """
+    graph = nx.Graph()
+    for el in ctx.schematic.elements:
+        if el.role and el.role != LOAD and el.left != el.right:
+            graph.add_edge(el.left, el.right)
+    pair_block: dict[frozenset, int] = {}
+    for number, edges in enumerate(nx.biconnected_component_edges(graph)):
+        for u, v in edges:
+            pair_block[frozenset((u, v))] = number
+    out = {}
+    for el in ctx.schematic.elements:
+        if el.role and el.role != LOAD and el.left != el.right:
+            out[el.index] = pair_block[frozenset((el.left, el.right))]
+    return out
+
+
+def _in_series_without(circuit, element: Element, load: Element, removed: list[Element]) -> bool:
+    """``element`` is in series with ``load`` in the circuit with ``removed`` taken out."""
+    return circuit.has_energizing_path(load, without=removed) and not circuit.has_energizing_path(load, without=removed + [element])
+
+
+def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
+    circuit = ctx.circuit
+    blocks: dict[int, int] | None = None
+    for start in ctx.schematic.elements:
+        dev = _device(ctx, start.tag)
+        if start.role != "contact" or start.part != "NO" or not _is_momentary_pushbutton(dev) or dev.get("function") != "start":
+            continue
+        for coil in circuit.served_loads(start):
+            coil_dev = _device(ctx, coil.tag)
+            if coil.part != "coil" or coil_dev is None or coil_dev.kind not in COIL_KINDS:
+                continue
+            if ctx.schematic.rungs[coil.rung].jog:
+                continue
+            if blocks is None:
+                blocks = _block_of(ctx)
+            own_no = _contacts(ctx, coil.tag, "NO")
+            seals = [m for m in own_no if blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)]
+            if not seals:
+                yield Finding(
+                    start.loc,
+                    f"start button {start.tag} ({start.text}) energizes coil {coil.text}, but no NO contact of {coil.tag} "
+                    f"is wired around it: {coil.tag} drops out as soon as the button is released; add a seal-in "
+                    f"{coil.tag}.NO in parallel with {start.text}, or set jog: true on the rung if that is intended",
+                    f"{start.text}@{coil.text}",
+                )
+                continue
+            # Stop and overload contacts in series with the coil as the start button sees it (seal open).
+            keep = []
+            for el in circuit.serving(coil):
+                el_dev = _device(ctx, el.tag)
+                if el.role != "contact" or el_dev is None:
+                    continue
+                if (_is_stop_device(el_dev) or el_dev.kind == "overload") and _in_series_without(circuit, el, coil, own_no):
+                    keep.append(el)
+            bypassed = [c for c in keep if circuit.has_energizing_path(coil, without=[start, c])]
+            if bypassed:
+                path = circuit.energizing_path(coil, without=[start, bypassed[0]])
+                yield Finding(
+                    start.loc,
+                    f"the seal-in of coil {coil.text} around start button {start.text} also bypasses {_names(bypassed)} "
+                    f"(path {_path_text(path, coil, ctx)}): once sealed, {coil.tag} no longer drops when "
+                    f"{' or '.join(c.tag for c in bypassed)} opens; wire the seal-in across {start.text} only",
+                    f"{start.text}@{coil.text}",
+                )
+
+
+# ---------------------------------------------------------------------------
+# switch-fan-out
+
+
+def _interlock_pairs(ctx: CheckContext) -> list[tuple[str, str]]:
+    """Declared interlock pairs (each once, in file order), both devices known and of contactor kind."""
+    seen = set()
+    pairs = []
+    for tag, dev in ctx.schematic.devices.items():
+        other = dev.get("interlock") if dev.kind in CONTACTOR_KINDS else None
+        other_dev = _device(ctx, other) if other else None
+        if other_dev is None or other_dev.kind not in CONTACTOR_KINDS or other == tag:
+            continue
+        key = frozenset((tag, other))
+        if key not in seen:
+            seen.add(key)
+            pairs.append((tag, other))
+    return pairs
+
+
+def _interlocked(ctx: CheckContext, coil: Element, other: str) -> bool:
+    """Every energizing path of ``coil`` passes an NC contact of ``other`` (and one exists)."""
+    circuit = ctx.circuit
+    nc = _contacts(ctx, other, "NC")
+    return bool(nc) and circuit.has_energizing_path(coil) and not circuit.has_energizing_path(coil, without=nc)
+
+
+def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
+    circuit = ctx.circuit
+    limit = ctx.options.get("max_inductive", 1)
+    pairs = _interlock_pairs(ctx)
+    for el in ctx.schematic.elements:
+        dev = _device(ctx, el.tag)
+        if el.role != "contact" or not _is_mechanical(dev):
+            continue
+        loads = [x for x in circuit.served_loads(el) if x.inductive]
+        if len(loads) <= limit:
+            continue
+        count = len(loads)
+        merged: set[int] = set()
+        for a, b in pairs:
+            ca = [x for x in loads if x.tag == a and x.index not in merged]
+            cb = [x for x in loads if x.tag == b and x.index not in merged]
+            if ca and cb and _interlocked(ctx, ca[0], b) and _interlocked(ctx, cb[0], a):
+                merged.update((ca[0].index, cb[0].index))
+                count -= 1
+        if count <= limit:
+            continue
+        supply = circuit.supply_of(loads[0])
+        on = f" on supply {supply.name}" if supply is not None else ""
+        yield Finding(
+            el.loc,
+            f"contact {el.text} serves {count} inductive loads ({_names(loads)}){on}; a mechanical switch should "
+            f"carry at most {limit}: it makes their summed inrush current, so drive one interposing relay instead",
+            _subject(ctx, el),
+        )
+
+
+# ---------------------------------------------------------------------------
+# interlock
+
+
+def check_interlock(ctx: CheckContext) -> Iterator[Finding]:
+    circuit = ctx.circuit
+    for a, b in _interlock_pairs(ctx):
+        for this, other in ((a, b), (b, a)):
+            nc = _contacts(ctx, other, "NC")
+            for coil in _coils(ctx, this):
+                path = circuit.energizing_path(coil, without=nc)
+                if path is None:
+                    continue
+                this_dev = _device(ctx, this)
+                declared = f"{this} has interlock: {other}" if this_dev.get("interlock") == other else f"{other} has interlock: {this}"
+                yield Finding(
+                    coil.loc,
+                    f"coil {coil.text} has no NC contact of {other} in series ({declared}; path "
+                    f"{_path_text(path, coil, ctx)}): both can be on together; wire {other}.NC in series with {coil.text}",
+                    _subject(ctx, coil),
+                )
+
+
+# ---------------------------------------------------------------------------
+# emergency-stop
+
+
+def _governed(ctx: CheckContext, tag: str) -> set[int]:
+    """Coils governed by emergency stop ``tag``: its contacts, or NO contacts of relays it governs, in series.
+
+    A least fixpoint: a coil is governed when every energizing path passes a
+    contact of the stop or a NO contact of a device whose coils are all
+    governed (a master control relay, possibly in a chain).
+    """
+    circuit = ctx.circuit
+    cut = list(circuit.elements_of(tag))
+    coils = _coil_loads(ctx)
+    governed: set[int] = set()
+    done_devices: set[str] = set()
+    changed = True
+    while changed:
+        changed = False
+        for coil in coils:
+            if coil.index in governed or not circuit.has_energizing_path(coil):
+                continue
+            if not circuit.has_energizing_path(coil, without=cut):
+                governed.add(coil.index)
+                changed = True
+        for coil in coils:
+            if coil.tag in done_devices:
+                continue
+            if all(c.index in governed for c in _coils(ctx, coil.tag)):
+                done_devices.add(coil.tag)
+                cut.extend(_contacts(ctx, coil.tag, "NO"))
+                changed = True
+    return governed
+
+
+def check_emergency_stop(ctx: CheckContext) -> Iterator[Finding]:
+    circuit = ctx.circuit
+    for tag, dev in ctx.schematic.devices.items():
+        if dev.kind != "pushbutton" or dev.get("function") != "emergency-stop":
+            continue
+        problems = []
+        if (dev.get("action") or "momentary") != "maintained":
+            problems.append("it is momentary, not maintained (latching): releasing it must not restart anything, so use a latching device (action: maintained)")
+        elements = circuit.elements_of(tag)
+        no = [e for e in elements if e.part == "NO"]
+        if no:
+            problems.append(f"it is used through its NO contact {_names(no)}: an emergency stop must open its circuit, so use NC contacts")
+        supplies = []
+        for el in elements:
+            for load in circuit.served_loads(el):
+                supply = circuit.supply_of(load)
+                if supply is not None and supply.name not in supplies:
+                    supplies.append(supply.name)
+        if supplies:
+            governed = _governed(ctx, tag)
+            missed = []
+            for coil in _coil_loads(ctx):
+                coil_dev = _device(ctx, coil.tag)
+                supply = circuit.supply_of(coil)
+                if coil_dev.kind in CONTACTOR_KINDS and supply is not None and supply.name in supplies and coil.index not in governed and circuit.has_energizing_path(coil):
+                    missed.append(coil)
+            if missed:
+                problems.append(
+                    f"it does not govern {_names(missed)} on supply {', '.join(supplies)} (each can be energized with "
+                    f"{tag} pressed): put it in series with every "
+                    f"contactor and starter coil, directly or through a master control relay it drops"
+                )
+        if problems:
+            yield Finding(dev.loc, f"emergency stop {tag}: " + "; ".join(problems), tag)
+
+
+# ---------------------------------------------------------------------------
+# auto-restart
+
+
+def _closable_at_power_return(ctx: CheckContext, el: Element) -> bool | None:
+    """Whether ``el`` can be closed when power returns; None for a coil's NO contact (decided by the fixpoint)."""
+    dev = _device(ctx, el.tag)
+    if dev is None or el.role in ("", LOAD, "output"):
+        return False  # unknown, a load (never a conductor here), or a PLC output (the program owns restart)
+    if el.role == "conductor":
+        return True
+    if dev.kind in COIL_KINDS:
+        return True if el.part == "NC" else None
+    if dev.kind == "overload":
+        return el.part == "NC"
+    if dev.kind == "pushbutton":
+        return (dev.get("action") or "momentary") == "maintained" or el.part == "NC"
+    if dev.kind == "selector":
+        if (dev.get("action") or "maintained") == "spring-return":
+            positions = dev.get("positions") or []
+            return bool(positions) and el.part == positions[0]
+        return True
+    return _is_mechanical(dev)
+
+
+def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
+    circuit = ctx.circuit
+    blocked: list[Element] = []
+    coil_no: dict[str, list[Element]] = {}
+    for el in ctx.schematic.elements:
+        if el.role == LOAD:
+            continue
+        closable = _closable_at_power_return(ctx, el)
+        if closable is None:
+            coil_no.setdefault(el.tag, []).append(el)
+        elif not closable:
+            blocked.append(el)
+    coils = _coil_loads(ctx)
+    on: set[int] = set()
+    changed = True
+    while changed:
+        changed = False
+        still_blocked = [e for nos in coil_no.values() for e in nos]
+        cut = blocked + still_blocked
+        for coil in coils:
+            if coil.index not in on and circuit.has_energizing_path(coil, without=cut):
+                on.add(coil.index)
+                changed = True
+        for coil in coils:
+            if coil.index in on:
+                coil_no.pop(coil.tag, None)
+    cut = blocked + [e for nos in coil_no.values() for e in nos]
+    for coil in coils:
+        dev = _device(ctx, coil.tag)
+        if coil.index not in on or dev.kind not in CONTACTOR_KINDS:
+            continue
+        fed = dev.get("feeds")
+        fed_dev = _device(ctx, fed) if fed else None
+        if fed_dev is None or fed_dev.kind != "motor":
+            continue
+        if ctx.schematic.rungs[coil.rung].restart == "automatic":
+            continue
+        path = circuit.energizing_path(coil, without=cut)
+        yield Finding(
+            coil.loc,
+            f"{dev.kind} {coil.tag} (motor {fed}) can energize when power returns with no button pressed "
+            f"(path {_path_text(path, coil, ctx)}): use three-wire control (momentary start with seal-in) "
+            f"so the motor stays off until started, or set restart: automatic on the rung if that is intended",
+            _subject(ctx, coil),
+        )
+
+
+# ---------------------------------------------------------------------------
+# oscillation
+
+
+def check_oscillation(ctx: CheckContext) -> Iterator[Finding]:
+    circuit = ctx.circuit
+    reported: set[str] = set()
+    blocks: dict[int, int] | None = None
+    for coil in _coil_loads(ctx):
+        dev = _device(ctx, coil.tag)
+        if dev.kind == "timer":
+            continue
+        own_nc = [e for e in _contacts(ctx, coil.tag, "NC") if circuit.serves(e, coil)]
+        if not own_nc:
+            continue
+        if blocks is None:
+            blocks = _block_of(ctx)
+        own_no = [m for m in _contacts(ctx, coil.tag, "NO") if circuit.serves(m, coil)]
+        # An own NO contact on a common loop with the NC takes over as the NC opens (a changeover): no chatter.
+        chattering = [c for c in own_nc if not any(blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(c.index) for m in own_no)]
+        if not chattering:
+            continue
+        nc = chattering[0]
+        reported.add(coil.tag)
+        yield Finding(
+            coil.loc,
+            f"coil {coil.text} is fed through its own NC contact {nc.text}: as the coil pulls in the contact opens "
+            f"and drops it again, so it chatters; take {nc.text} out of the coil's circuit",
+            _subject(ctx, coil),
+        )
+    yield from _oscillation_at_rest(ctx, reported)
+
+
+def _oscillation_at_rest(ctx: CheckContext, reported: set[str]) -> Iterator[Finding]:
+    """Run the simulator from rest; a circuit that hunts there is reported at a coil involved."""
+    result = ctx.circuit.simulator().reset()
+    if result is None or not getattr(result, "oscillating", False):
+        return
+    involved = _hunting_coils(ctx, result.oscillating)
+    if not involved or any(c.tag in reported for c in involved):
+        return
+    first = involved[0]
+    yield Finding(
+        first.loc,
+        f"from rest the circuit does not settle: coils {_names(involved)} switch each other on and off in a loop; "
+        f"break the loop (a seal-in, or an interlock that holds one state)",
+        _subject(ctx, first),
+    )
+
+
+def _hunting_coils(ctx: CheckContext, tags) -> list[Element]:
+    """The coil elements of the simulator's oscillating tags, file order (all coils if it names none)."""
+    names = set(tags) if isinstance(tags, (list, tuple, set, frozenset)) else set()
+    coils = _coil_loads(ctx)
+    return [c for c in coils if c.tag in names] if names else coils
+
+
+# ---------------------------------------------------------------------------
+
+_STARTER = """\
+devices:
+  PB1: {kind: pushbutton, function: stop}
+  PB2: {kind: pushbutton, function: start}
+  M1: {kind: starter, coil: 120 VAC, overload: OL1, feeds: MTR1}
+"""
+
+RULES = [
+    Rule(
+        name="stop-normally-closed",
+        severity=Severity.ERROR,
+        summary="a stop or emergency-stop button used through an NO contact",
+        doc=(
+            "A stop button must stop the machine by opening the circuit, so that a broken wire, a loose "
+            "terminal or a burnt contact stops it too. Wired through its NO contact, the same faults make "
+            "the button do nothing when it is pressed. The rule flags every NO contact of a pushbutton whose "
+            "function is stop or emergency-stop."
+        ),
+        source="NFPA 79 9.2.5.3 / IEC 60204-1 9.4.1 (stop functions by de-energization); common practice",
+        check=check_stop_normally_closed,
+        failing=Example("stop button through its NO contact", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NO, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [2, M1.NO, 3]\n"),
+        passing=Example("stop button through its NC contact", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [2, M1.NO, 3]\n"),
+    ),
+    Rule(
+        name="stop-in-series",
+        severity=Severity.ERROR,
+        summary="a coil served by a stop button has a path that avoids every contact of it",
+        doc=(
+            "A stop button stops only the paths it is on. Where the seal-in, a second start station or a "
+            "parallel branch reaches the coil without passing the stop, pressing stop leaves the motor "
+            "running. For every coil a stop button's contact serves, the rule asks whether the coil can be "
+            "energized with all of that button's contacts taken out, and names such a path. Several stop "
+            "stations belong in series; a stop wired in parallel with another is bypassed by it."
+        ),
+        source="common practice (stop buttons normally closed and in series); NFPA 79 9.2.5.3",
+        check=check_stop_in_series,
+        failing=Example("seal-in wired around the stop", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [L1, M1.NO, 3]\n"),
+        passing=Example("seal-in around the start only", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [2, M1.NO, 3]\n"),
+    ),
+    Rule(
+        name="overload-in-coil-path",
+        severity=Severity.ERROR,
+        summary="a starter's coil can be energized without its overload relay's NC contact",
+        doc=(
+            "An overload relay protects the motor only by dropping the starter's coil: its NC contact must "
+            "be on every energizing path of the coil. The rule checks starters, and contactors that name an "
+            "overload, for a path to the coil that avoids every NC contact of that overload relay (or for an "
+            "overload whose NC contact is used nowhere)."
+        ),
+        source="NEC 430.32 / NFPA 79 7.3 (motor overload protection); common practice",
+        check=check_overload_in_coil_path,
+        failing=Example("overload contact missing", "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, X2]\n      - [2, M1.NO, 3]\n"),
+        passing=Example("overload contact in series", "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [2, M1.NO, 3]\n"),
+    ),
+    Rule(
+        name="seal-in",
+        severity=Severity.ERROR,
+        summary="a momentary start button's coil has no seal-in of its own around the start contact",
+        doc=(
+            "Three-wire control: a momentary start button energizes the coil and a NO auxiliary contact of "
+            "the same device, wired across the start contact, holds it in after the button is released. "
+            "Without it the motor runs only while the button is held; with a seal-in that also bypasses a "
+            "stop or overload contact, the motor can no longer be stopped by it. The rule looks at each "
+            "coil a momentary start button's NO contact serves, unless the rung sets jog: true."
+        ),
+        source="common practice (three-wire control, low-voltage protection); NFPA 79 7.5",
+        check=check_seal_in,
+        failing=Example("no seal-in", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n"),
+        passing=Example("seal-in across the start button", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [2, M1.NO, 3]\n"),
+    ),
+    Rule(
+        name="switch-fan-out",
+        severity=Severity.WARNING,
+        summary="a mechanical switch contact serves more inductive loads than max_inductive",
+        doc=(
+            "A pushbutton, selector or process switch that switches several coils or solenoids at once makes "
+            "and breaks their summed inrush current, beyond what its small contacts are meant to carry, and "
+            "wears or welds. Drive one interposing relay instead, so the switch carries one coil current. "
+            "The two coils of an interlock pair count as one where each has the other's NC contact in "
+            "series, since they are then never on together."
+        ),
+        source="common practice (a switch feeding several inductive loads carries their summed inrush)",
+        check=check_switch_fan_out,
+        failing=Example("float switch drives two solenoids", "rungs:\n  - paths:\n      - [L1, FS1.NO, 2, SOL1, X2]\n      - [2, SOL2, X2]\n"),
+        passing=Example("float switch drives one relay", "rungs:\n  - paths:\n      - [L1, FS1.NO, 2, CR1.coil, X2]\n      - [L1, CR1.NO, 3, SOL1, X2]\n      - [3, SOL2, X2]\n"),
+        options={"max_inductive": Option(1, "how many inductive loads one mechanical switch contact may serve", int, minimum=1)},
+    ),
+    Rule(
+        name="interlock",
+        severity=Severity.ERROR,
+        summary="an interlocked contactor's coil lacks the other contactor's NC contact in series",
+        doc=(
+            "Two contactors that must never be on together, such as the forward and reverse contactors of "
+            "a reversing starter, short the supply between phases if they are. Each coil needs an NC "
+            "auxiliary contact of the other in series, so that neither can pull in while the other is on. "
+            "A contactor that names another in `interlock` is checked, and so is the other side of the "
+            "pair, each at its own coil."
+        ),
+        source="NFPA 79 9.3.4 (interlocks for reversing); common practice (electrical interlock of reversing starters)",
+        check=check_interlock,
+        failing=Example("reverse coil not interlocked", "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1R.NC, 4, M1F.coil, 5, OL1.NC, X2]\n      - [2, PB3.NO, 6, M1R.coil, 5]\n"),
+        passing=Example("each coil through the other's NC", "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1R.NC, 4, M1F.coil, 5, OL1.NC, X2]\n      - [2, PB3.NO, 6, M1F.NC, 7, M1R.coil, 5]\n"),
+    ),
+    Rule(
+        name="emergency-stop",
+        severity=Severity.ERROR,
+        summary="an emergency stop that does not latch, is not NC, or does not drop every contactor",
+        doc=(
+            "An emergency stop must latch when pressed (releasing it must not restart anything), must open "
+            "its circuit through NC contacts (so a broken wire also stops), and must drop every contactor and "
+            "starter on its control supply, either directly in series with each coil or through a master "
+            "control relay whose coil it drops and whose NO contacts are in series with the others."
+        ),
+        source="NFPA 79 9.2.5.4 / IEC 60204-1 10.7 (emergency stop devices), ISO 13850",
+        check=check_emergency_stop,
+        failing=Example("momentary emergency stop", "devices:\n  ES1: {kind: pushbutton, function: emergency-stop}\n"),
+        passing=Example("latching emergency stop through an MCR", "devices:\n  ES1: {kind: pushbutton, function: emergency-stop, action: maintained}\nrungs:\n  - paths:\n      - [L1, ES1.NC, 2, MCR.coil, X2]\n      - [L1, MCR.NO, 3, PB1.NC, 4, PB2.NO, 5, M1.coil, 6, OL1.NC, X2]\n"),
+    ),
+    Rule(
+        name="auto-restart",
+        severity=Severity.WARNING,
+        summary="a motor contactor can energize when power returns with no button pressed",
+        doc=(
+            "After a power failure a machine must not start by itself: two-wire control (a maintained "
+            "switch, a float or pressure switch straight to the coil) restarts the motor when power returns. "
+            "The rule finds, as a least fixpoint from every coil off, which coils can come on with no button "
+            "pressed: through momentary buttons' NC contacts, maintained and process switches, NC contacts of "
+            "any coil, NO contacts of coils that can come on, fuses and overload NC contacts. PLC outputs "
+            "count as open. Where restarting is intended (a sump pump on its float), set restart: automatic "
+            "on the rung."
+        ),
+        source="NFPA 79 7.5 / IEC 60204-1 7.5 (protection against unexpected restart)",
+        check=check_auto_restart,
+        failing=Example("maintained switch straight to the starter", "rungs:\n  - paths:\n      - [L1, SS1.run, 2, M1.coil, 3, OL1.NC, X2]\n"),
+        passing=Example("intended two-wire control", "rungs:\n  - restart: automatic\n    paths:\n      - [L1, FS1.NO, 2, M1.coil, 3, OL1.NC, X2]\n"),
+    ),
+    Rule(
+        name="oscillation",
+        severity=Severity.ERROR,
+        summary="a coil is fed through its own NC contact and chatters",
+        doc=(
+            "A coil whose energizing path passes its own NC contact switches itself off as soon as it pulls "
+            "in, and on again when it drops: it chatters, burns its contacts and the loads it drives. "
+            "Timers are left out, since a timer with its own timed NC contact is a recycling pulse timer. "
+            "The circuit is also simulated from rest, and a loop of several relays that switch each other "
+            "off is reported at a coil in the loop."
+        ),
+        source="common practice",
+        check=check_oscillation,
+        failing=Example("relay through its own NC", "rungs:\n  - paths:\n      - [L1, PB1.NO, 2, CR1.NC, 3, CR1.coil, X2]\n"),
+        passing=Example("relay sealed through its own NO", "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, CR1.coil, X2]\n      - [2, CR1.NO, 3]\n"),
+    ),
+]
+
+
+@hookimpl
+def ctllint_rules():
+    return RULES
