@@ -38,7 +38,9 @@ exponentially):
   stage) is solved exactly by the block chain of the rest. Each round also
   simplifies series and parallel connections (a wire joining just two
   elements makes them one; parallel elements are interchangeable; one in
-  parallel with X, or with hot-common, is on no path). A 2-vertex
+  parallel with X, or with hot-common, is on no path), and an element that
+  forms a cut of three with X and hot-common (a cycle crosses a cut an even
+  number of times) is on no path either. A 2-vertex
   separation that puts the supply side, X and an element in three different
   branches (an element bridging directly across the branch that holds X) is
   peeled off exactly this way.
@@ -491,6 +493,60 @@ def _simplify(inner: list[int], ends: dict[int, tuple[str, str]], keep: set[str]
     return list(live)
 
 
+def _odd_cut_bridges(edges: list[Edge], s: str, t: str, u: str, v: str) -> set[int]:
+    """Bridges whose removal puts s apart from t and u apart from v.
+
+    With the virtual edges (s, t) and (u, v) added, such a bridge and the two
+    virtual edges form a cut of three edges; a cycle crosses a cut an even
+    number of times, so no cycle through both virtual edges uses the bridge.
+    One iterative DFS with entry and exit times: linear.
+    """
+    adj = _adjacency(edges)
+    if s not in adj:
+        return set()
+    disc: dict[str, int] = {s: 0}
+    low: dict[str, int] = {s: 0}
+    done: dict[str, int] = {}
+    parent_edge: dict[str, int | None] = {s: None}
+    tree: list[tuple[int, str, str]] = []  # (edge, parent, child)
+    stack = [(s, iter(adj[s]))]
+    clock = 1
+    while stack:
+        x, it = stack[-1]
+        descended = False
+        for y, eid in it:
+            if eid == parent_edge[x]:
+                continue
+            if y not in disc:
+                disc[y] = low[y] = clock
+                clock += 1
+                parent_edge[y] = eid
+                tree.append((eid, x, y))
+                stack.append((y, iter(adj[y])))
+                descended = True
+                break
+            if disc[y] < low[x]:
+                low[x] = disc[y]
+        if descended:
+            continue
+        stack.pop()
+        done[x] = clock
+        clock += 1
+        if stack:
+            p = stack[-1][0]
+            if low[x] < low[p]:
+                low[p] = low[x]
+
+    def below(child: str, w: str) -> bool:
+        return w in disc and disc[child] <= disc[w] and done[w] <= done[child]
+
+    out = set()
+    for eid, parent, child in tree:
+        if low[child] > disc[parent] and below(child, s) != below(child, t) and below(child, u) != below(child, v):
+            out.add(eid)
+    return out
+
+
 def _serving_edges(edges: list[Edge], s: str, t: str, u: str, v: str) -> set[int] | None:
     """Real edges on some cycle through the virtual edges (s, t) and (u, v).
 
@@ -527,7 +583,9 @@ def _serving_edges(edges: list[Edge], s: str, t: str, u: str, v: str) -> set[int
     for _ in range(_MAX_ROUNDS):
         if {s, t} == {u, v}:
             break
+        before = len(inner)
         inner = _simplify(inner, ends, {s, t, u, v}, (frozenset((s, t)), frozenset((u, v))), merge, new_id)
+        simplified = len(inner) != before
         shared = {s, t} & {u, v}
         if shared:
             w = shared.pop()
@@ -548,7 +606,7 @@ def _serving_edges(edges: list[Edge], s: str, t: str, u: str, v: str) -> set[int
         j = next((i for i, (block, _, _) in enumerate(chain) if virtual in block), None)
         if j is None:
             return None
-        progressed = len(chain) > 1 or len(chain[0][0]) != len(sub)
+        progressed = simplified or len(chain) > 1 or len(chain[0][0]) != len(sub)
         for i, (block, _, _) in enumerate(chain):
             if i != j:
                 served.update(block)
@@ -560,8 +618,13 @@ def _serving_edges(edges: list[Edge], s: str, t: str, u: str, v: str) -> set[int
             u, v = entry, exit_
         stall = 0 if progressed else stall + 1
         if stall >= 2:
-            served.update(inner)  # the core (see the module docstring)
-            break
+            odd = _odd_cut_bridges([(e, *ends[e]) for e in inner], s, t, u, v)
+            if odd:
+                inner = [e for e in inner if e not in odd]
+                stall = 0
+            else:
+                served.update(inner)  # the core (see the module docstring)
+                break
         turn ^= 1
     else:
         served.update(inner)
@@ -746,7 +809,9 @@ class Circuit:
         route = self._route(load)
         if route is None or route.paths is None:
             return None
-        skip = frozenset(el.index for el in without)
+        # A frozenset is taken as element indices already: callers asking many
+        # times with the same cut build it once (see ``cut``).
+        skip = without if isinstance(without, frozenset) else frozenset(el.index for el in without)
         if load.index in skip:
             return None
         if not skip:
@@ -760,6 +825,11 @@ class Circuit:
                 return None
             ids = self._assemble(load, paths)
         return [self._by_index[i] for i in ids]
+
+    @staticmethod
+    def cut(elements: Iterable[Element]) -> frozenset[int]:
+        """A reusable ``without`` for many energizing-path questions with the same elements removed."""
+        return frozenset(el.index for el in elements)
 
     def serves(self, element: Element, load: Element) -> bool:
         """Whether ``element`` is on at least one energizing path of ``load`` (not itself)."""

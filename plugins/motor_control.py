@@ -530,7 +530,7 @@ def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
     while changed:
         changed = False
         still_blocked = [e for nos in coil_no.values() for e in nos]
-        cut = blocked + still_blocked
+        cut = circuit.cut(blocked + still_blocked)
         for coil in coils:
             if coil.index not in on and circuit.has_energizing_path(coil, without=cut):
                 on.add(coil.index)
@@ -538,7 +538,7 @@ def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
         for coil in coils:
             if coil.index in on:
                 coil_no.pop(coil.tag, None)
-    cut = blocked + [e for nos in coil_no.values() for e in nos]
+    cut = circuit.cut(blocked + [e for nos in coil_no.values() for e in nos])
     for coil in coils:
         dev = _device(ctx, coil.tag)
         if coil.index not in on or dev.kind not in CONTACTOR_KINDS:

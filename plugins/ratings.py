@@ -430,27 +430,37 @@ def check_contact_rating(ctx) -> Iterator[Finding]:
 # ---------------------------------------------------------------------------
 
 
-def _motors_protected_by(ctx, overload: Device) -> list[tuple[Device, Device]]:
-    """(contactor, motor) pairs for each contactor or starter naming
-    ``overload`` as its overload relay and feeding a motor, one per motor."""
-    pairs, seen = [], set()
+def _protected_motors(ctx) -> dict[str, list[tuple[Device, Device]]]:
+    """Overload tag -> (contactor, motor) pairs for each contactor or starter
+    naming it as its overload relay and feeding a motor, one per motor.
+    Built once per schematic, so the rule stays linear in the device count."""
+    by_overload: dict[str, list[tuple[Device, Device]]] = {}
+    seen: set[tuple[str, str]] = set()
     for device in ctx.devices.values():
-        if device.kind not in _CONTACTOR_KINDS or device.get("overload") != overload.tag:
+        overload = device.get("overload")
+        if device.kind not in _CONTACTOR_KINDS or not isinstance(overload, str):
             continue
         motor = ctx.devices.get(device.get("feeds") or "")
-        if motor is None or motor.kind != "motor" or motor.tag in seen:
+        if motor is None or motor.kind != "motor" or (overload, motor.tag) in seen:
             continue
-        seen.add(motor.tag)
-        pairs.append((device, motor))
-    return pairs
+        seen.add((overload, motor.tag))
+        by_overload.setdefault(overload, []).append((device, motor))
+    return by_overload
+
+
+def _motors_protected_by(ctx, overload: Device, index: dict | None = None) -> list[tuple[Device, Device]]:
+    """(contactor, motor) pairs for each contactor or starter naming
+    ``overload`` as its overload relay and feeding a motor, one per motor."""
+    return (index if index is not None else _protected_motors(ctx)).get(overload.tag, [])
 
 
 def check_overload_setting(ctx) -> Iterator[Finding]:
+    index = _protected_motors(ctx)
     for overload in ctx.devices.values():
         setting = overload.get("setting")
         if overload.kind != "overload" or not isinstance(setting, Quantity):
             continue
-        for contactor, motor in _motors_protected_by(ctx, overload):
+        for contactor, motor in _motors_protected_by(ctx, overload, index):
             fla, source = motor_full_load(motor)
             if fla is None:
                 yield Finding(

@@ -28,7 +28,7 @@ def motor_circuits(n: int, title: str = "Generated line") -> str:
             f"  PB{i}A: {{kind: pushbutton, function: stop, rating: A600}}",
             f"  PB{i}B: {{kind: pushbutton, function: start, rating: A600}}",
             f"  M{i}: {{kind: starter, coil: 120 VAC, inrush: 120 VA, sealed: 12 VA, overload: OL{i}, feeds: MTR{i}, rating: A600, power_rating: {{size: 1}}}}",
-            f"  OL{i}: {{kind: overload, setting: 4.4 A}}",
+            f"  OL{i}: {{kind: overload, setting: 5.2 A}}",
             f"  MTR{i}: {{kind: motor, power: 3 hp, voltage: 460 V, phases: 3, service_factor: 1.15}}",
             f"  PL{i}: {{kind: pilot-light, voltage: 120 VAC, power: 1 W}}",
             f"  Q{i}: {{kind: plc-output, output: transistor, voltage: 24 VDC, rating: 0.5 A}}",
@@ -66,20 +66,21 @@ def lattice(n: int) -> str:
         "devices:",
         "  CR0: {kind: relay, coil: 120 VAC}",
         "  PB0: {kind: pushbutton, function: stop}",
+        "  LS0: {kind: limit-switch}",
     ]
     for i in range(1, n + 1):
         out.append(f"  LS{i}: {{kind: limit-switch}}")
     out += ["rungs:", "  - title: Lattice", "    paths:"]
-    paths = []
-    prev_a, prev_b = "L1", "L1"
+    paths = ["      - [L1, PB0.NC, s]"]
+    prev_a, prev_b = "s", "s"
     for i in range(1, n + 1):
         a, b = f"a{i}", f"b{i}"
         paths.append(f"      - [{prev_a}, LS{i}.NO, {a}]")
         paths.append(f"      - [{prev_b}, LS{i}.NC, {b}]")
         paths.append(f"      - [{a}, LS{i}.NO, {b}]")
         prev_a, prev_b = a, b
-    paths.append(f"      - [{prev_a}, PB0.NC, c, CR0.coil, X2]")
-    paths.append(f"      - [{prev_b}, CR0.NO, c]")
+    paths.append(f"      - [{prev_a}, CR0.NO, c, CR0.coil, X2]")
+    paths.append(f"      - [{prev_b}, LS0.NO, c]")
     out += paths
     return "\n".join(out) + "\n"
 
