@@ -59,7 +59,7 @@ LEFT_MARGIN = 64        # room for rung numbers left of the hot rail
 XREF_WIDTH = 196        # margin right of the common rail
 RIGHT_PAD = 16
 SYMBOL_HALF = 14        # every symbol fits in [cx - 14, cx + 14]
-TERMINAL_INSET = 18     # a wire end that is not a rail stays clear of it
+TERMINAL_INSET = 14     # a wire end that is not a rail stays clear of it
 LABEL_ABOVE = 17        # element label baseline above the row line
 WIRE_ABOVE = 4          # wire number baseline above the row line
 ROW_TOP = 32            # from a row's top to its line
@@ -442,7 +442,7 @@ def _assign_rows(lay: RungLayout) -> None:
         lay.rows = 1
         return
     col = lay.column
-    first, rest = lay.paths[0], list(range(1, len(lay.paths)))
+    rest = list(range(1, len(lay.paths)))
     span = {i: (col[lay.paths[i].nodes[0]], col[lay.paths[i].nodes[-1]]) for i in range(len(lay.paths))}
     orders = [rest,
               sorted(rest, key=lambda i: (span[i][1] - span[i][0], i)),
@@ -626,6 +626,14 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
         svg.text(cx, y + 4, "?", "letter", "middle")
 
 
+def _outline_half(p: Placed, col_w: float) -> float:
+    """Half the width of the outline a marked element gets (0 when it has no findings)."""
+    if not p.findings:
+        return SYMBOL_HALF
+    label = fit(_element_label(p.element), SIZE_TAG, col_w - 8)
+    return max(SYMBOL_HALF + 6, text_width(label, SIZE_TAG) / 2 + 5)
+
+
 def _element_label(el: Element) -> str:
     if el.part in (None, "NO", "NC", "coil"):
         return el.tag
@@ -752,6 +760,13 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
     # Horizontal measures. The column width leaves room for the widest element label.
     col_w = (TARGET_WIDTH - LEFT_MARGIN - XREF_WIDTH - RIGHT_PAD) / last
     col_w = max(MIN_COLUMN_WIDTH, min(MAX_COLUMN_WIDTH, col_w))
+    # The shortest run of a wire is half a column less half a symbol (a branch
+    # leaving a connector), less the inset where a wire ends off the rails:
+    # widen the columns until the longest wire number fits there.
+    longest = max([text_width(w, SIZE_WIRE) for lay in layouts for w in lay.wire_of.values()] + [0])
+    longest_inset = max([text_width(lay.wire_of[n], SIZE_WIRE) for lay in layouts for n, c in lay.column.items()
+                         if c in (0, last) and n not in (lay.hot, lay.common)] + [-TERMINAL_INSET])
+    col_w = max(col_w, 2 * (SYMBOL_HALF + 3 + longest), 2 * (SYMBOL_HALF + 3 + TERMINAL_INSET + longest_inset))
     rail_l = LEFT_MARGIN
     rail_r = rail_l + last * col_w
     width = rail_r + XREF_WIDTH + RIGHT_PAD
@@ -813,6 +828,8 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
         head.text(rail_l, y + 20, "no rungs" + (" (a shared device file)" if sch.device_file else ""), "caption")
         y += 40
 
+    # Supply names are free text: ids use their position instead.
+    supply_id = {name: f"{pre}supply-{k}" for k, name in enumerate(sch.supplies, 1)}
     rule_labels: dict[tuple[int, int], list[_Lane]] = {}
     for sec in sections:
         sec.top = y
@@ -850,7 +867,7 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
             y = lay.bottom
         sec.bottom = y
         for d in sec.findings:
-            anchors.setdefault(d, f"{pre}supply-{sec.supply.name}")
+            anchors.setdefault(d, supply_id[sec.supply.name])
         y += 12
 
     # -- write ---------------------------------------------------------------------
@@ -865,19 +882,23 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
         sup = sec.supply
         head_h = SECTION_HEAD + len(sec.findings) * LANE_STEP
         rail_top = sec.top + head_h - 6
-        sid = f' id="{pre}supply-{sup.name}"' if sup and not any(s.supply is sup for s in sections[:i]) else ""
+        sid = f' id="{supply_id[sup.name]}"' if sup and not any(s.supply is sup for s in sections[:i]) else ""
         attrs = f' data-supply={quoteattr(sup.name)} data-hot={quoteattr(sup.hot)} data-common={quoteattr(sup.common)}' if sup else ""
         svg.add(f'<g class="section"{sid}{attrs}>')
         if sec.findings:
             worst = max(d.severity for d in sec.findings)
             svg.add(f'<rect class="outline mark-{worst}" x="{_n(rail_l - 30)}" y="{_n(sec.top + 2)}" width="{_n(rail_r - rail_l + 60)}" height="{_n(head_h - 12)}" rx="4"/>')
         if sup:
-            svg.text(rail_l, sec.top + 20, sup.hot, "railname", "middle", f' data-rail="hot"')
-            svg.text(rail_r, sec.top + 20, sup.common, "railname", "middle", f' data-rail="common"')
+            svg.text(rail_l, sec.top + 20, sup.hot, "railname", "middle", ' data-rail="hot"')
+            svg.text(rail_r, sec.top + 20, sup.common, "railname", "middle", ' data-rail="common"')
             label = f"{sup.name} \u00b7 {sup.voltage.text}" + (f" \u00b7 from {sup.source}" if sup.source else "")
             svg.text((rail_l + rail_r) / 2, sec.top + 20, fit(label, SIZE_SUB, rail_r - rail_l - 80), "supply", "middle")
             for k, d in enumerate(sec.findings):
-                svg.text((rail_l + rail_r) / 2, sec.top + 33 + k * LANE_STEP, d.rule, f"rule sev-{d.severity}", "middle", f' data-rule="{d.rule}"')
+                if d in links:
+                    svg.add(f'<a class="finding" href="#{links[d]}" data-rule={quoteattr(d.rule)} data-severity="{d.severity}" data-line="{d.line}" data-column="{d.column}">')
+                svg.text((rail_l + rail_r) / 2, sec.top + 33 + k * LANE_STEP, d.rule, f"rule sev-{d.severity}", "middle", f" data-rule={quoteattr(d.rule)}")
+                if d in links:
+                    svg.add("</a>")
         svg.line(rail_l, rail_top, rail_l, sec.bottom, "rail")
         svg.line(rail_r, rail_top, rail_r, sec.bottom, "rail")
         svg.add("</g>")
@@ -897,9 +918,10 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
             y += 16
             for d in diagnostics:
                 where = "" if d in anchors else "  (not on the drawing)"
-                line = f"{d.line}:{d.column}  {d.severity}  [{d.rule}]  {d.message}{where}"
+                place = f"{d.line}:{d.column}" if os.path.normpath(d.path) == os.path.normpath(sch.path) else f"{d.path}:{d.line}:{d.column}"
+                line = f"{place}  {d.severity}  [{d.rule}]  {d.message}{where}"
                 for k, text in enumerate(_wrap(line, SIZE_SUB, room - 24)):
-                    extra = f' data-finding-line="{d.line}" data-rule="{d.rule}"' if k == 0 else ""
+                    extra = f' data-finding-line="{d.line}" data-rule={quoteattr(d.rule)}' if k == 0 else ""
                     legend_svg.text(x0 + (24 if k else 0), y, text, "legend", extra=extra)
                     y += 15
             y += 6
@@ -952,6 +974,8 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
 
     # Wires: on each row, the runs between symbols. A run is one wire; runs of
     # one wire that meet on a row (two segments touching at a node) are one run.
+    # Each run carries its number, placed clear of the neighbours' outlines
+    # when the run is long enough, and clear of a connector rising from it.
     runs: dict[tuple[int, str], list[float]] = {}
     for rp in lay.paths:
         k_last = len(rp.nodes) - 1
@@ -959,9 +983,13 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
             x = node_x(lay, node)
             lo = x if k == 0 else rp.placed[k - 1].cx + SYMBOL_HALF
             hi = x if k == k_last else rp.placed[k].cx - SYMBOL_HALF
-            span = runs.setdefault((rp.row, node), [x, x])
+            free_lo = x if k == 0 else rp.placed[k - 1].cx + _outline_half(rp.placed[k - 1], col_w)
+            free_hi = x if k == k_last else rp.placed[k].cx - _outline_half(rp.placed[k], col_w)
+            span = runs.setdefault((rp.row, node), [x, x, x, x])
             span[0], span[1] = min(span[0], lo), max(span[1], hi)
-    for (row, node), (lo, hi) in runs.items():
+            span[2], span[3] = min(span[2], free_lo), max(span[3], free_hi)
+    numbers: list[tuple[float, float, str]] = []
+    for (row, node), (lo, hi, free_lo, free_hi) in runs.items():
         y = lay.row_y[row]
         if hi - lo > 0.05:
             svg.line(lo, y, hi, y)
@@ -969,13 +997,14 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
             continue
         wire = lay.wire_of[node]
         x = node_x(lay, node)
-        # Keep the number clear of a connector rising from this point.
         if any(r < row for r in rows_of.get(node, [])):
             if hi - x >= x - lo:
-                lo = x
+                lo, free_lo = x, max(free_lo, x)
             else:
-                hi = x
-        svg.text((lo + hi) / 2, y - WIRE_ABOVE, wire, "wire", "middle", f' data-wire={quoteattr(wire)} data-rung="{rung.number}"')
+                hi, free_hi = x, min(free_hi, x)
+        if free_hi - free_lo >= text_width(wire, SIZE_WIRE) + 4:
+            lo, hi = free_lo, free_hi
+        numbers.append(((lo + hi) / 2, y, wire))
 
     # Vertical connectors, junction dots, terminals.
     for node, rows in rows_of.items():
@@ -1016,11 +1045,15 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
             svg.add(f"<title>{escape(el.text)} (line {el.loc.line}, wires {escape(el.left)}\u2013{escape(el.right)})</title>")
             if p.findings:
                 worst = max(d.severity for d in p.findings)
-                w = max(2 * SYMBOL_HALF + 12, text_width(label, SIZE_TAG) + 10)
-                svg.add(f'<rect class="outline mark-{worst}" x="{_n(p.cx - w / 2)}" y="{_n(p.y - 29)}" width="{_n(w)}" height="44" rx="5"/>')
+                half = _outline_half(p, col_w)
+                svg.add(f'<rect class="outline mark-{worst}" x="{_n(p.cx - half)}" y="{_n(p.y - 29)}" width="{_n(2 * half)}" height="44" rx="5"/>')
             _symbol(svg, p, p.kind)
             svg.text(p.cx, p.y - LABEL_ABOVE, label, "tag", "middle")
             svg.add("</g>")
+
+    # Wire numbers, above the elements' outlines.
+    for cx, y, wire in numbers:
+        svg.text(cx, y - WIRE_ABOVE, wire, "wire", "middle", f' data-wire={quoteattr(wire)} data-rung="{rung.number}"')
 
     # Rule names under marked elements.
     for r in range(lay.rows):
@@ -1029,7 +1062,7 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
             y = lay.row_y[r] + LANE_FIRST + lab.lane * LANE_STEP
             tag = "a" if d in links else "g"
             href = f' href="#{links[d]}"' if d in links else ""
-            svg.add(f'<{tag} class="finding"{href} data-rule="{d.rule}" data-severity="{d.severity}" data-line="{d.line}" data-column="{d.column}" data-for="{lab.placed.anchor}">'
+            svg.add(f'<{tag} class="finding"{href} data-rule={quoteattr(d.rule)} data-severity="{d.severity}" data-line="{d.line}" data-column="{d.column}" data-for="{lab.placed.anchor}">'
                     f"<title>{escape(f'{d.severity}: {d.message} [{d.rule}]')}</title>")
             svg.text(lab.x0, y, d.rule, f"rule sev-{d.severity}")
             svg.add(f"</{tag}>")

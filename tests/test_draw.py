@@ -494,3 +494,33 @@ def test_draw_command_errors(tmp_path, capsys):
     err = capsys.readouterr().err
     assert "bad.ctl.yaml:5:1: error:" in err and "[format]" in err
     assert main(["draw", str(tmp_path)]) == 2
+
+
+def test_long_wire_numbers_in_tight_places_stay_legible():
+    """Long wire names on the shortest runs (a branch leaving a connector, next to
+    a lettered load) and many columns: the columns widen rather than let text collide."""
+    names = ["1001A", "1002B", "1003C", "1004D", "1005E", "1006F", "1007G", "1008H"]
+    chain = ", ".join(f"{w}, S{i}.NO" for i, w in enumerate(names[:-1]))
+    text = "\n".join([
+        "ctllint: 1",
+        "supplies:",
+        "  ctl: {hot: L1, common: X2, voltage: 120 VAC}",
+        "devices:",
+        *[f"  S{i}: {{kind: limit-switch}}" for i in range(10)],
+        "  SOL1: {kind: solenoid}",
+        "  HN1: {kind: horn}",
+        "  I1: {kind: plc-input}",
+        "rungs:",
+        "  - paths:",
+        f"      - [L1, S9.NO, {chain}, {names[-1]}, SOL1, X2]",
+        f"      - [{names[0]}, S8.NO, {names[1]}]",
+        f"      - [{names[2]}, HN1, X2]",
+        "  - paths:",
+        f"      - [{names[3]}, I1, 77777, S8.NC, X2]",
+    ]) + "\n"
+    sch = load_text(text, "long.ctl.yaml").schematic
+    assert sch is not None
+    root = parse(layout(sch).svg)
+    assert not overlapping_texts(root)
+    shown = {t.get("data-wire") for t in texts(root, "wire")}
+    assert set(names) <= shown
