@@ -188,10 +188,11 @@ class FindingDiff:
     message: str
     line: int
     column: int
+    path: str = ""  # the file it points at, in its revision: the schematic or a file it uses
 
     def as_dict(self) -> dict[str, Any]:
         return {"change": self.change, "rule": self.rule, "severity": self.severity,
-                "message": self.message, "line": self.line, "column": self.column}
+                "message": self.message, "path": self.path, "line": self.line, "column": self.column}
 
 
 @dataclass
@@ -201,8 +202,10 @@ class SchematicDiff:
     ``old_path``/``new_path`` are None for a file added/deleted. ``status``
     is "added", "deleted", "modified" or "unloadable" (a revision that does
     not load: ``load_errors`` and ``text_diff`` then say what is known).
-    ``wire_renames`` maps old non-rail wire names to new ones (only names
-    that changed). ``findings_compared`` is False when findings were not
+    ``wire_renames`` maps old non-rail wire names to new ones: names that
+    changed, on wires that run through a rung present in both revisions
+    (the wires of a rung added or removed whole are not renumbered, they
+    are new or gone). ``findings_compared`` is False when findings were not
     given or could not be computed (``notes`` says why).
     """
 
@@ -579,11 +582,18 @@ def semantic_diff(
     out = SchematicDiff(old.path if old else None, new.path if new else None, status, old_label, new_label)
     src_old, src_new = _Source(old), _Source(new)
     wires = _Wires(old, new)
-    out.wire_renames = dict(sorted(wires.renames.items(), key=lambda p: _natural(p[0])))
     out.header = _header(old, new, src_old, src_new)
     out.supplies = _supplies(old, new, src_old, src_new)
     out.devices = _devices(old, new, src_old, src_new)
     out.rungs, rung_pairs = _rungs(old, new, wires)
+    # a renamed wire is worth showing where it runs through a rung present in both revisions
+    shown: dict[str, str] = {}
+    for ro, rn, _ in rung_pairs:
+        new_wires = {w for e in rn.elements for w in (e.left, e.right)}
+        for o in {w for e in ro.elements for w in (e.left, e.right)} & wires.renames.keys():
+            if wires.renames[o] in new_wires:
+                shown[o] = wires.renames[o]
+    out.wire_renames = dict(sorted(shown.items(), key=lambda p: _natural(p[0])))
     out.scenarios = _scenarios(old, new, src_old, src_new)
     if old_findings is not None or new_findings is not None:
         rung_numbers = {o.number: n.number for o, n, _ in rung_pairs}
@@ -968,8 +978,8 @@ def _findings(old: list[Diagnostic], new: list[Diagnostic], wire_map: dict[str, 
                 unmatched.append(d)
         rest_old = unmatched
         rest_new = [d for bucket in pool.values() for d in bucket]
-    out = [FindingDiff(DISAPPEARED, d.rule, str(d.severity), d.message, d.line, d.column) for d in sorted(rest_old)]
-    out += [FindingDiff(APPEARED, d.rule, str(d.severity), d.message, d.line, d.column) for d in sorted(rest_new)]
+    out = [FindingDiff(DISAPPEARED, d.rule, str(d.severity), d.message, d.line, d.column, d.path) for d in sorted(rest_old)]
+    out += [FindingDiff(APPEARED, d.rule, str(d.severity), d.message, d.line, d.column, d.path) for d in sorted(rest_new)]
     return out
 
 
@@ -1140,7 +1150,9 @@ def _render_one(d: SchematicDiff, paint, mark) -> list[str]:
     if d.findings:
         out.append("  findings:")
         for f in d.findings:
-            where = f"line {f.line}" if f.change == APPEARED else f"was line {f.line}"
+            own = d.new_path if f.change == APPEARED else d.old_path
+            where = f"line {f.line}" if f.path in ("", own) else f"{f.path} line {f.line}"
+            where = where if f.change == APPEARED else f"was {where}"
             out.append("    " + mark(f.change, f"{f.severity}: {f.message} [{f.rule}] ({where})"))
     elif d.findings_compared and (d.electrical_changes or d.wire_renames):
         out.append("  findings: none appeared or disappeared")

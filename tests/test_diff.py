@@ -491,6 +491,31 @@ def test_git_external_diff_for_added_deleted_and_staged_files(repo):
 
 
 @needs_git
+def test_git_external_diff_of_a_renamed_schematic_takes_nine_arguments(repo):
+    git(repo, "mv", "plant/wash.ctl.yaml", "plant/washer.ctl.yaml")
+    path = repo / "plant" / "washer.ctl.yaml"
+    path.write_text(path.read_text().replace("setting: 8 A", "setting: 9 A"))
+    git(repo, "add", ".")
+    out = git(repo, "-c", f"diff.ctllint.command={DRIVER} --no-findings", "diff", "--cached", "-M")
+    assert "ctllint diff plant/wash.ctl.yaml -> plant/washer.ctl.yaml" in out
+    assert "~ setting: 8 A -> 9 A" in out
+
+
+def test_git_external_unmerged_path_is_not_an_error(capsys):
+    assert main(["diff", "--git-external", "plant/press.ctl.yaml"]) == 0
+    assert "unmerged" in capsys.readouterr().out
+
+
+def test_cli_output_file(tmp_path, capsys, clean_env):
+    folder = os.path.join(DATA, "contact-moved")
+    target = tmp_path / "diff.json"
+    assert main(["diff", "--format", "json", "-o", str(target), os.path.join(folder, "old.ctl.yaml"), os.path.join(folder, "new.ctl.yaml")]) == 0
+    assert capsys.readouterr().out == ""
+    doc = json.loads(target.read_text())
+    assert doc["files"][0]["rungs"][0]["elements"][0]["change"] == "moved"
+
+
+@needs_git
 def test_git_external_accepts_gits_seven_arguments(repo, capsys):
     new = repo / "plant" / "press.ctl.yaml"
     old_copy = repo.parent / "git-blob-press.ctl.yaml"
@@ -533,6 +558,28 @@ def test_git_reads_used_device_files_from_the_revision(repo, capsys):
     out = capsys.readouterr().out
     assert "~ setting: 82 A -> 90 A" in out
     assert "~ setting: 10 A -> 12 A" in out  # OL9 as the old revision's device file had it
+
+
+@needs_git
+def test_git_shows_schematics_that_use_a_changed_device_file(repo, capsys):
+    press = repo / "plant" / "press.ctl.yaml"
+    text = press.read_text()
+    line = "  OL1: {kind: overload, setting: 82 A}\n"
+    assert line in text
+    press.write_text(text.replace(line, "").replace("ctllint: 1\n", "ctllint: 1\nuse: [../lib/overloads.ctl.yaml]\n", 1))
+    (repo / "lib" / "overloads.ctl.yaml").write_text("ctllint: 1\ndevices:\n" + line)
+    git(repo, "add", ".")
+    git(repo, "commit", "-qm", "overloads in a shared file")
+    (repo / "lib" / "overloads.ctl.yaml").write_text("ctllint: 1\ndevices:\n" + line.replace("82 A", "50 A"))
+    assert main(["diff", "--git", "HEAD", "--format", "json"]) == 0
+    files = {f["new_path"]: f for f in json.loads(capsys.readouterr().out)["files"]}
+    assert sorted(files) == ["lib/overloads.ctl.yaml", "plant/press.ctl.yaml"]
+    press_diff = files["plant/press.ctl.yaml"]
+    assert press_diff["notes"][0] == "unchanged itself; shown because it uses lib/overloads.ctl.yaml, which changed"
+    assert [(d["tag"], d["fields"]) for d in press_diff["devices"]] == [("OL1", [{"field": "setting", "old": "82 A", "new": "50 A"}])]
+    assert [(f["change"], f["rule"]) for f in press_diff["findings"]["changes"]] == [("appeared", "overload-setting")]
+    # the wash schematic does not use the file and is not listed
+    assert "plant/wash.ctl.yaml" not in files
 
 
 @needs_git

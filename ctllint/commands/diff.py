@@ -269,19 +269,80 @@ class _RevisionTree:
         return target
 
 
-def _use_entries(data: bytes) -> list[str]:
-    """The ``use`` paths a schematic names, read leniently (the loader reports any problem)."""
+def _peek(data: bytes) -> tuple[set[str], list[str]]:
+    """The top-level keys of a schematic and the ``use`` paths it names, read leniently (the loader reports any problem)."""
     try:
         root = compose(data.decode("utf-8", "replace").lstrip("\ufeff"), Limits())
-    except (YamlProblem, RecursionError):
-        return []
+    except (YamlProblem, RecursionError, ValueError):
+        return set(), []
     if not isinstance(root, MappingNode):
-        return []
+        return set(), []
+    keys: set[str] = set()
+    uses: list[str] = []
     for k, v in root.value:
-        if isinstance(k, ScalarNode) and k.value == "use":
-            items = v.value if isinstance(v, SequenceNode) else [v]
-            return [n.value for n in items if isinstance(n, ScalarNode) and isinstance(n.value, str)]
-    return []
+        if isinstance(k, ScalarNode):
+            keys.add(k.value)
+            if k.value == "use":
+                items = v.value if isinstance(v, SequenceNode) else [v]
+                uses = [n.value for n in items if isinstance(n, ScalarNode) and isinstance(n.value, str)]
+    return keys, uses
+
+
+def _use_entries(data: bytes) -> list[str]:
+    return _peek(data)[1]
+
+
+def _is_device_file(data: bytes) -> bool:
+    keys = _peek(data)[0]
+    return "devices" in keys and not keys & {"supplies", "rungs", "expect", "use"}
+
+
+def _read(rel: str, sha: str | None, top: str) -> bytes | None:
+    """A file of the working tree (sha None) or of a revision."""
+    if sha is None:
+        try:
+            with open(os.path.join(top, *rel.split("/")), "rb") as handle:
+                return handle.read()
+        except OSError:
+            return None
+    done = _git_cmd(["show", f"{sha}:{rel}"], cwd=top, check=False)
+    return done.stdout if done.returncode == 0 else None
+
+
+def _dependents(changes: list[tuple[str | None, str | None]], old_sha: str, new_sha: str | None, top: str, cwd: str,
+                pathspecs: list[str]) -> list[tuple[str, str]]:
+    """Unchanged schematics that ``use`` a changed shared device file: (schematic, device file) pairs.
+
+    Their devices changed with the device file, and so may their findings.
+    """
+    device_files: set[str] = set()
+    for old_rel, new_rel in changes:
+        for rel, sha in ((old_rel, old_sha), (new_rel, new_sha)):
+            if rel and rel not in device_files:
+                data = _read(rel, sha, top)
+                if data is not None and _is_device_file(data):
+                    device_files.add(rel)
+    if not device_files:
+        return []
+    listed = {p for pair in changes for p in pair if p}
+    if new_sha is None:
+        names = _git_cmd(["ls-files", "-z", "--full-name", "--", *pathspecs], cwd=cwd).stdout
+    else:
+        names = _git_cmd(["ls-tree", "-r", "-z", "--name-only", "--full-name", new_sha, "--", *pathspecs], cwd=cwd).stdout
+    basenames = {rel.rsplit("/", 1)[-1].encode() for rel in device_files}
+    out: list[tuple[str, str]] = []
+    for name in names.decode("utf-8", "surrogateescape").split("\0"):
+        if not name.endswith(SCHEMATIC_SUFFIXES) or name in listed:
+            continue
+        data = _read(name, new_sha, top)
+        if data is None or not any(b in data for b in basenames):
+            continue
+        for used in _use_entries(data):
+            resolved = os.path.normpath(os.path.join(os.path.dirname(name), used)).replace(os.sep, "/")
+            if resolved in device_files:
+                out.append((name, resolved))
+                break
+    return out
 
 
 def _git(args: argparse.Namespace) -> list[SchematicDiff]:
@@ -299,11 +360,12 @@ def _git(args: argparse.Namespace) -> list[SchematicDiff]:
         return []
     checker = _checker(args)
     new_label = new[1] if new else "working tree"
+    dependents = dict(_dependents(changes, old_sha, new[0] if new else None, top, cwd, args.files))
     diffs = []
     with tempfile.TemporaryDirectory(prefix="ctllint-diff-") as tmp:
         old_tree = _RevisionTree(old_sha, top, os.path.join(tmp, "old"))
         new_tree = _RevisionTree(new[0], top, os.path.join(tmp, "new")) if new else None
-        for old_rel, new_rel in changes:
+        for old_rel, new_rel in changes + [(name, name) for name in dependents]:
             old_rev = Revision(old_rel or new_rel, label=old_label)
             if old_rel:
                 real = old_tree.write(old_rel)
@@ -316,7 +378,12 @@ def _git(args: argparse.Namespace) -> list[SchematicDiff]:
                     real = os.path.join(top, *new_rel.split("/"))
                     real = real if os.path.isfile(real) else None
                 new_rev = Revision(new_rel, real_path=real, label=new_label)
-            diffs.append(diff_revisions(old_rev, new_rev, checker, findings=not args.no_findings))
+            diff = diff_revisions(old_rev, new_rev, checker, findings=not args.no_findings)
+            if new_rel in dependents:
+                if not diff.changed:
+                    continue
+                diff.notes.insert(0, f"unchanged itself; shown because it uses {dependents[new_rel]}, which changed")
+            diffs.append(diff)
     return diffs
 
 
