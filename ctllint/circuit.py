@@ -57,9 +57,11 @@ reported by other rules) are left out of every analysis, as if not drawn.
 """
 from __future__ import annotations
 
+import functools
+import gc
 from collections import deque
 from functools import cached_property
-from typing import TYPE_CHECKING, Iterable
+from typing import TYPE_CHECKING, Callable, Iterable, TypeVar
 
 import networkx as nx
 
@@ -80,6 +82,32 @@ _XI = -2
 _MAX_ROUNDS = 64
 
 Edge = tuple[int, str, str]  # (element index or virtual id, one wire, other wire)
+
+F = TypeVar("F", bound=Callable)
+
+
+def _gc_paused(method: F) -> F:
+    """Run ``method`` with Python's cyclic garbage collector paused.
+
+    The analyses allocate many short-lived lists and dicts and build no
+    reference cycles (reference counting frees them all). Left running, the
+    collector rescans the whole live heap - schematic and host program
+    included - ever more often as a circuit grows, which turns linear work
+    into superlinear time on large panels. Nested calls leave it to the
+    outermost.
+    """
+
+    @functools.wraps(method)
+    def paused(*args, **kwargs):
+        if not gc.isenabled():
+            return method(*args, **kwargs)
+        gc.disable()
+        try:
+            return method(*args, **kwargs)
+        finally:
+            gc.enable()
+
+    return paused  # type: ignore[return-value]
 
 
 def path_text(start: str, path: Iterable[Element]) -> str:
@@ -654,6 +682,7 @@ class _Route:
 class Circuit:
     """A schematic as a graph, with the shared analyses rules ask for."""
 
+    @_gc_paused
     def __init__(self, schematic: Schematic):
         self.schematic = schematic
         self.graph = nx.MultiGraph()
@@ -790,6 +819,7 @@ class Circuit:
         return route._series
 
     # -- energizing paths ------------------------------------------------
+    @_gc_paused
     def supply_of(self, load: Element) -> Supply | None:
         """The supply whose hot reaches one terminal of ``load`` and common the other.
 
@@ -800,18 +830,19 @@ class Circuit:
         route = self._route(load)
         return route.supply if route else None
 
-    def has_energizing_path(self, load: Element, without: Iterable[Element] = ()) -> bool:
-        """Whether ``load`` has an energizing path once ``without`` are removed."""
+    def has_energizing_path(self, load: Element, without: Iterable[Element] | frozenset[int] = ()) -> bool:
+        """Whether ``load`` has an energizing path once ``without`` (elements, or indices) are removed."""
         return self.energizing_path(load, without) is not None
 
-    def energizing_path(self, load: Element, without: Iterable[Element] = ()) -> list[Element] | None:
+    @_gc_paused
+    def energizing_path(self, load: Element, without: Iterable[Element] | frozenset[int] = ()) -> list[Element] | None:
         """One energizing path of ``load`` avoiding ``without``, hot to common, or None."""
         route = self._route(load)
         if route is None or route.paths is None:
             return None
-        # A frozenset is taken as element indices already: callers asking many
-        # times with the same cut build it once (see ``cut``).
-        skip = without if isinstance(without, frozenset) else frozenset(el.index for el in without)
+        # ``without`` holds elements, or element indices (``cut`` builds a
+        # reusable set of them once for callers asking many times).
+        skip = without if isinstance(without, frozenset) else frozenset(x if isinstance(x, int) else x.index for x in without)
         if load.index in skip:
             return None
         if not skip:
@@ -831,14 +862,17 @@ class Circuit:
         """A reusable ``without`` for many energizing-path questions with the same elements removed."""
         return frozenset(el.index for el in elements)
 
+    @_gc_paused
     def serves(self, element: Element, load: Element) -> bool:
         """Whether ``element`` is on at least one energizing path of ``load`` (not itself)."""
         return element is not load and element.index in self._serve_set(load)
 
+    @_gc_paused
     def serving(self, load: Element) -> list[Element]:
         """Elements on at least one energizing path of ``load``, itself excluded, file order."""
         return [self._by_index[i] for i in sorted(self._serve_set(load))]
 
+    @_gc_paused
     def served_loads(self, element: Element) -> list[Element]:
         """Loads that ``element`` serves, file order."""
         return list(self._served_by.get(element.index, ()))
@@ -851,11 +885,13 @@ class Circuit:
                 out.setdefault(i, []).append(load)
         return out
 
+    @_gc_paused
     def in_series(self, element: Element, load: Element) -> bool:
         """Whether ``element`` is on every energizing path of ``load`` (and there is one)."""
         return element is not load and element.index in self._series_set(load)
 
     # -- wiring faults ---------------------------------------------------
+    @_gc_paused
     def short_circuits(self) -> list[tuple[Supply, list[Element]]]:
         """Paths of non-load elements joining a supply's hot to its common, on paper.
 
@@ -930,6 +966,7 @@ class Circuit:
                     queue.append(x)
         return toward
 
+    @_gc_paused
     def reaches_rail_only_through_loads(self, load: Element) -> list[Element]:
         """For a load with no energizing path, the other loads a hot-load-common path needs.
 
@@ -963,6 +1000,7 @@ class Circuit:
             self._loose_routes[load.index] = result
         return self._loose_routes[load.index]
 
+    @_gc_paused
     def supply_cross(self) -> list[tuple[Element, Supply, Supply]]:
         """Elements (loads included) joining the rails of two different supplies.
 

@@ -197,7 +197,7 @@ def check_stop_normally_closed(ctx: CheckContext) -> Iterator[Finding]:
 
 def check_stop_in_series(ctx: CheckContext) -> Iterator[Finding]:
     circuit = ctx.circuit
-    coils = _coil_loads(ctx)
+    coil_by_index = {c.index: c for c in _coil_loads(ctx)}
     groups: dict[str, str] | None = None
     for tag, dev in ctx.schematic.devices.items():
         if not _is_stop_device(dev):
@@ -209,10 +209,11 @@ def check_stop_in_series(ctx: CheckContext) -> Iterator[Finding]:
         for el in stop_elements:
             for load in circuit.served_loads(el):
                 served.setdefault(load.index, el)
-        for coil in coils:
-            stop = served.get(coil.index)
-            if stop is None:
+        for index in sorted(served):  # only the coils this stop serves, file order: linear overall
+            coil = coil_by_index.get(index)
+            if coil is None:
                 continue
+            stop = served[index]
             path = circuit.energizing_path(coil, without=stop_elements)
             if path is None:
                 continue

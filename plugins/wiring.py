@@ -565,9 +565,9 @@ class _SupplySides:
         for hot_side, common_side in ((load.left, load.right), (load.right, load.left)):
             if hot_side == common or common_side == hot or hot_side == common_side:
                 continue
-            if not self._reaches_hot(hot_side, common_side):
-                continue
             if common_side == common:
+                continue
+            if not self._reaches_hot(hot_side, common_side):
                 continue
             comp = self._common_component.get(common_side)
             if comp is None or comp != self._common_component.get(common):
