@@ -28,29 +28,30 @@ exponentially):
   some vertex x of Q2 separates, together with e, the supply side from the
   load side; the bridges of the cycle Q1+Q2 decide this for all e at once
   (prefix maxima, suffix minima and a coverage count: linear).
-* ``serves`` (on at least one energizing path) peels the problem down with
-  block-cut trees: simple hot-common paths through X run along the chain of
-  blocks between hot and common, every element of a chain block other than
-  X's own is on one, and inside X's block the question repeats with the
-  block's entry and exit as the new ends; the same peeling is applied from
-  X's side (the chain of blocks between X's terminals), alternately, until
-  neither side changes. A load terminal on a rail (or a shared vertex at any
-  stage) is solved exactly by the block chain of the rest. Each round also
-  simplifies series and parallel connections (a wire joining just two
-  elements makes them one; parallel elements are interchangeable; one in
-  parallel with X, or with hot-common, is on no path), and an element that
-  forms a cut of three with X and hot-common (a cycle crosses a cut an even
-  number of times) is on no path either. A 2-vertex
-  separation that puts the supply side, X and an element in three different
-  branches (an element bridging directly across the branch that holds X) is
-  peeled off exactly this way.
+* ``serves`` (on at least one energizing path) is peeled down, exactly, in
+  rounds. Simple hot-common paths through X run along the chain of blocks
+  (block-cut tree) between hot and common: every element of a chain block
+  other than X's own is on one, and inside X's block the question repeats
+  with the block's entry and exit as the new ends. The same peeling is
+  applied from X's side (the chain of blocks between X's terminals, the
+  supply taken as an edge). Each round also simplifies series and parallel
+  connections (a wire joining just two elements makes them one bundle;
+  parallel elements are interchangeable; an element in parallel with X or
+  with hot-common is on no path). When the two ends share a wire (a load
+  hung directly on a rail, say), the block chain of the rest is the exact
+  answer. When neither side peels any more, an element that makes a cut of
+  three with X and hot-common is dropped (a cycle crosses a cut an even
+  number of times). A 2-vertex separation that puts the supply side, X and
+  an element in three different branches - an element bridging directly
+  across the branch that holds X - is peeled off this way.
 
-The one known approximation: inside what remains (a triconnected core), every
-element is taken to serve X. An element so counted that is on no energizing
-path of X always lies on a path from hot to common through no load at all -
-a short circuit on paper, which ``short_circuits`` reports - so circuits
-without a short circuit get exact answers. (Exactness in that last case would
-need the SPQR tree of the core.)
+The one known approximation: whatever remains after peeling (a core that no
+block chain, series-parallel step or odd cut reduces further; SPQR "R"
+structure) is taken to serve X as a whole. An element so counted that is on
+no energizing path of X always lies on a path from hot to common through no
+load at all - a short circuit on paper, which ``short_circuits`` reports -
+so circuits without a short circuit get exact answers. (Exactness there too
+would need the SPQR tree of the core.) ``in_series`` has no approximation.
 
 Elements whose role is unknown (an undeclared tag or a part the kind lacks,
 reported by other rules) are left out of every analysis, as if not drawn.

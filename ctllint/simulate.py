@@ -52,6 +52,7 @@ from collections import deque
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
+from .circuit import _gc_paused, path_text
 from .model import Element, Location, Scenario, Step
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -356,8 +357,6 @@ class Simulator:
                 path.append(el)  # type: ignore[arg-type]
                 w = el.right if el.left == w else el.left  # type: ignore[union-attr]
             path.reverse()
-            from .circuit import path_text
-
             self._short_texts[s.name] = path_text(s.hot, path)
             out.append((s.name, [el.text for el in path]))
         return out
@@ -389,6 +388,7 @@ class Simulator:
         return False
 
     # -- actions --------------------------------------------------------------
+    @_gc_paused
     def reset(self) -> StepResult:
         """Return to the rest state (power on, nothing actuated) and settle."""
         self._rest_state()
@@ -422,40 +422,49 @@ class Simulator:
             if tag in self.tripped:
                 self.tripped[tag] = False
 
+    @_gc_paused
     def press(self, tag: str) -> StepResult:
         """Actuate a switch (held until ``release``)."""
         self._apply("press", tag)
         return self._settle()
 
+    @_gc_paused
     def release(self, tag: str) -> StepResult:
         """Return a switch to rest, or a selector to its first position."""
         self._apply("release", tag)
         return self._settle()
 
+    @_gc_paused
     def set(self, tag: str, value: Any) -> StepResult:
         """Set a selector's position, or a switch or PLC output ``on``/``off``."""
         self._apply("set", tag, value)
         return self._settle()
 
+    @_gc_paused
     def trip(self, tag: str) -> StepResult:
         """Trip an overload, or blow a fuse or breaker."""
         self._apply("trip", tag)
         return self._settle()
 
+    @_gc_paused
     def reset_device(self, tag: str) -> StepResult:
         """Reset a tripped overload, fuse or breaker."""
         self._apply("reset", tag)
         return self._settle()
 
+    @_gc_paused
     def power(self, on: bool) -> StepResult:
         """Switch control power off or on."""
         self.power_on = bool(on)
         return self._settle()
 
+    @_gc_paused
     def wait(self, seconds: float) -> StepResult:
         """Let ``seconds`` pass: timers reaching their preset move their contacts."""
         remaining = max(0.0, float(seconds))
-        result = StepResult()
+        result = self._settle()  # after an unsettled step, time settles nothing
+        if not result.settled:
+            return result
         history: dict[tuple, float] = {}
         for _ in range(_MAX_TIMER_EVENTS):
             due = [(d, tm) for tm in self._timers.values() if (d := tm.due_in()) is not None]
@@ -490,6 +499,7 @@ class Simulator:
             timer.elapsed += dt
 
     # -- scenarios ------------------------------------------------------------
+    @_gc_paused
     def run_scenario(self, scenario: Scenario) -> list[ScenarioEvent]:
         """Run an ``expect`` scenario from rest; report failed checks and the first unsettled step."""
         events: list[ScenarioEvent] = []

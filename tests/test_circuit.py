@@ -92,6 +92,9 @@ def test_three_wire_start_stop():
     assert not c.has_energizing_path(coil, without=c.elements_of("PB1"))
     assert not c.has_energizing_path(coil, without=[el(c, "PB2.NO"), seal])
     assert c.has_energizing_path(coil, without=[el(c, "PB2.NO")])
+    # ``without`` as element indices, built once with ``cut``
+    assert not c.has_energizing_path(coil, without=c.cut(c.elements_of("PB1")))
+    assert c.has_energizing_path(coil, without=frozenset({el(c, "PB2.NO")}))
 
 
 def test_stop_bypassed_by_miswired_seal():
@@ -529,6 +532,29 @@ def test_analyses_match_brute_force(case):
                 if _simple_paths(known, ra, rb, rails - {ra, rb}, lambda e: True):
                     joined = True
         assert bool(cross) == joined
+
+
+def test_known_approximation_only_on_a_short():
+    # A triconnected knot around K.coil: C8 and C12 are on no energizing path
+    # of the coil, but no peeling step shows it, so they are counted as
+    # serving it (module docstring). Both lie on a load-free path from L1 to
+    # X2, which short_circuits reports.
+    sch = build([
+        ["X2", "C0.NO", "6"], ["1", "C1.NO", "2"], ["5", "C2.NO", "2"], ["3", "C3.NO", "1"],
+        ["1", "C4.NO", "5"], ["6", "K.coil", "4"], ["4", "C7.NO", "3"], ["3", "C8.NO", "6"],
+        ["1", "C10.NO", "4"], ["L1", "C11.NO", "2"], ["5", "C12.NO", "X2"], ["5", "C13.NO", "1"],
+    ])
+    c = Circuit(sch)
+    coil = c.loads[0]
+    paths = [p for p in _simple_paths(sch.elements, "L1", "X2", set(), lambda e: True) if coil in p]
+    truly = {e.text for p in paths for e in p} - {"K.coil"}
+    counted = set(texts(c.serving(coil)))
+    assert counted - truly == {"C8.NO", "C12.NO"}
+    free = _simple_paths(sch.elements, "L1", "X2", set(), lambda e: e.role != "load")
+    assert {"C8.NO", "C12.NO"} <= {e.text for p in free for e in p}
+    assert c.short_circuits()
+    # in_series stays exact
+    assert {e.text for e in sch.elements if c.in_series(e, coil)} == set.intersection(*({e.text for e in p} for p in paths)) - {"K.coil"}
 
 
 def test_property_stats_report(capsys):
