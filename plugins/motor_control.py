@@ -293,6 +293,11 @@ def _in_series_without(circuit, element: Element, load: Element, removed: list[E
 def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
     circuit = ctx.circuit
     blocks: dict[int, int] | None = None
+    # Copies of a contact or coil on the same two wires are the same thing
+    # electrically: work each position out once (a pasted rung repeated many
+    # times would otherwise multiply the work by the copies, to the fourth power).
+    verdicts: dict[tuple, tuple[str, list[Element], list[Element] | None]] = {}
+    keeps: dict[tuple, list[Element]] = {}
     for start in ctx.schematic.elements:
         dev = _device(ctx, start.tag)
         if start.role != "contact" or start.part != "NO" or not _is_momentary_pushbutton(dev) or dev.get("function") != "start":
@@ -305,9 +310,11 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
                 continue
             if blocks is None:
                 blocks = _block_of(ctx)
-            own_no = _contacts(ctx, coil.tag, "NO")
-            seals = [m for m in own_no if blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)]
-            if not seals:
+            key = (start.tag, start.left, start.right, coil.tag, coil.left, coil.right)
+            if key not in verdicts:
+                verdicts[key] = _seal_verdict(ctx, circuit, blocks, keeps, start, coil)
+            verdict, bypassed, path = verdicts[key]
+            if verdict == "missing":
                 yield Finding(
                     start.loc,
                     f"start button {start.tag} ({start.text}) energizes coil {coil.text}, but no NO contact of {coil.tag} "
@@ -316,17 +323,7 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
                     f"{start.text}@{coil.text}",
                 )
                 continue
-            # Stop and overload contacts in series with the coil as the start button sees it (seal open).
-            keep = []
-            for el in circuit.serving(coil):
-                el_dev = _device(ctx, el.tag)
-                if el.role != "contact" or el_dev is None:
-                    continue
-                if (_is_stop_device(el_dev) or el_dev.kind == "overload") and _in_series_without(circuit, el, coil, own_no):
-                    keep.append(el)
-            bypassed = [c for c in keep if circuit.has_energizing_path(coil, without=[start, c])]
             if bypassed:
-                path = circuit.energizing_path(coil, without=[start, bypassed[0]])
                 yield Finding(
                     start.loc,
                     f"the seal-in of coil {coil.text} around start button {start.text} also bypasses {_names(bypassed)} "
@@ -393,6 +390,29 @@ def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
             _subject(ctx, el),
         )
 
+
+
+def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
+    """("missing" | "bypass" | "ok", contacts the seal bypasses, a path through the bypass)."""
+    own_no = _contacts(ctx, coil.tag, "NO")
+    seals = [m for m in own_no if blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)]
+    if not seals:
+        return "missing", [], None
+    coil_key = (coil.tag, coil.left, coil.right)
+    if coil_key not in keeps:
+        # Stop and overload contacts in series with the coil as the start button sees it (seal open).
+        keep = []
+        for el in circuit.serving(coil):
+            el_dev = _device(ctx, el.tag)
+            if el.role != "contact" or el_dev is None:
+                continue
+            if (_is_stop_device(el_dev) or el_dev.kind == "overload") and _in_series_without(circuit, el, coil, own_no):
+                keep.append(el)
+        keeps[coil_key] = keep
+    bypassed = [c for c in keeps[coil_key] if circuit.has_energizing_path(coil, without=[start, c])]
+    if not bypassed:
+        return "ok", [], None
+    return "bypass", bypassed, circuit.energizing_path(coil, without=[start, bypassed[0]])
 
 # ---------------------------------------------------------------------------
 # interlock
