@@ -7,7 +7,10 @@ internal error.
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import os
+import re
+import stat
 import sys
 import textwrap
 import traceback
@@ -27,7 +30,7 @@ rules: stop buttons normally closed and in series, overloads in every
 starter coil path, seal-ins, contact ratings, coil voltages, grounded-side
 switching, automatic restart, transformer and fuse sizing, and more.
 
-""" + SAFETY_NOTE
+""" + textwrap.fill(SAFETY_NOTE, 78)
 
 EPILOG = """\
 examples:
@@ -64,7 +67,14 @@ def build_parser() -> argparse.ArgumentParser:
     parser = _Parser(prog="ctllint", description=DESCRIPTION, epilog=EPILOG, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--version", action="version", version=f"ctllint {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
-    for name, (configure, _, help_text) in COMMANDS.items():
+    from .commands import LAZY
+
+    names = list(COMMANDS) + [n for n in LAZY if n not in COMMANDS]
+    for name in names:
+        if name in COMMANDS:
+            configure, _, help_text = COMMANDS[name]
+        else:  # listed for --help; its module is imported only when the command runs
+            configure, help_text = (lambda p: None), LAZY[name][1]
         p = sub.add_parser(name, help=help_text, description=help_text, formatter_class=argparse.RawDescriptionHelpFormatter)
         configure(p)
     return parser
@@ -100,10 +110,31 @@ def split_names(values: list[str] | None) -> list[str]:
     return out
 
 
+# Characters a schematic may smuggle into a message (a double-quoted key can
+# hold any of them) that would act on a terminal or forge lines of the report:
+# control characters (escape sequences, carriage return, line breaks) and
+# bidirectional overrides. Shown escaped, as Python writes them.
+_UNPRINTABLE = re.compile("[\x00-\x08\x0a-\x1f\x7f-\x9f\u061c\u200e\u200f\u2028\u2029\u202a-\u202e\u2066-\u2069]")
+
+
+def printable(text: str) -> str:
+    return _UNPRINTABLE.sub(lambda m: m.group().encode("unicode_escape").decode("ascii"), text)
+
+
+def printable_diagnostic(d: Diagnostic) -> Diagnostic:
+    if _UNPRINTABLE.search(d.message) or _UNPRINTABLE.search(d.path):
+        return dataclasses.replace(d, message=printable(d.message), path=printable(d.path))
+    return d
+
+
 def write_output(text: str, output: str | None) -> None:
     """Print, or write ``output`` atomically: a temporary file beside it, then a rename."""
     if output is None or output == "-":
-        sys.stdout.write(text)
+        try:
+            sys.stdout.write(text)
+        except UnicodeEncodeError:  # a terminal that cannot show every character of a message
+            encoding = sys.stdout.encoding or "ascii"
+            sys.stdout.write(text.encode(encoding, "backslashreplace").decode(encoding))
         sys.stdout.flush()
         return
     folder = os.path.dirname(os.path.abspath(output))
@@ -111,14 +142,25 @@ def write_output(text: str, output: str | None) -> None:
         raise UsageError(f"ctllint: cannot write {output}: folder {folder} does not exist")
     import tempfile
 
+    if os.path.isdir(output):
+        raise UsageError(f"ctllint: cannot write {output}: it is a folder")
+    try:  # keep the permissions of the file replaced (mkstemp makes it 0600)
+        mode = stat.S_IMODE(os.stat(output).st_mode)
+    except OSError:
+        umask = os.umask(0)
+        os.umask(umask)
+        mode = 0o666 & ~umask
     fd, tmp = tempfile.mkstemp(prefix=".ctllint-", suffix=".tmp", dir=folder)
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
             handle.write(text)
+        os.chmod(tmp, mode)
         os.replace(tmp, output)
-    except BaseException:
+    except BaseException as exc:
         if os.path.exists(tmp):
             os.unlink(tmp)
+        if isinstance(exc, OSError):
+            raise UsageError(f"ctllint: cannot write {output}: {exc.strerror or exc}") from None
         raise
 
 
@@ -164,10 +206,13 @@ def _run_check(args: argparse.Namespace) -> int:
 
         diagnostics = filter_baseline(args.baseline, diagnostics)
     fmt = host.formats[args.format]
+    shown, files = diagnostics, result.files
+    if args.format not in ("json", "sarif"):  # those escape every character themselves
+        shown, files = [printable_diagnostic(d) for d in diagnostics], [printable(f) for f in files]
     if args.format == "text":
-        text = render_text(diagnostics, result.files, host.rules, colour=args.output is None and use_colour())
+        text = render_text(shown, files, host.rules, colour=args.output is None and use_colour())
     else:
-        text = fmt.render(diagnostics, result.files, host.rules)
+        text = fmt.render(shown, files, host.rules)
     write_output(text, args.output)
     fail_on = Severity.parse(args.fail_on or cfg.fail_on or "error")
     failed = any(d.severity >= fail_on for d in diagnostics)
@@ -256,7 +301,10 @@ command("explain", "print a rule's documentation: why, source, a failing and a p
 # -- main -----------------------------------------------------------------------
 
 def main(argv: list[str] | None = None) -> int:
-    from . import commands  # noqa: F401  (registers the further commands)
+    from . import commands
+
+    words = sys.argv[1:] if argv is None else argv
+    commands.load(next((w for w in words if not w.startswith("-")), ""))
     parser = build_parser()
     try:
         args = parser.parse_args(argv)

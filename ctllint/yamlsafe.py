@@ -107,19 +107,13 @@ def pos(node: Node) -> tuple[int, int]:
     return node.line, node.column
 
 
-def _events(text: str):
+def _event_source(text: str):
+    """A function returning the next parser event of ``text`` on each call."""
     if CParser is not None:
-        parser = CParser(text)
-        get = parser.get_event
-        while True:
-            event = get()
-            yield event
-            if event.__class__ is ev.StreamEndEvent:
-                return
-    else:  # pragma: no cover
-        from ruamel.yaml import YAML
+        return CParser(text).get_event
+    from ruamel.yaml import YAML  # pragma: no cover - without the C extension
 
-        yield from YAML(typ="safe", pure=True).parse(text)
+    return iter(YAML(typ="safe", pure=True).parse(text)).__next__  # pragma: no cover
 
 
 def compose(text: str, limits: Limits) -> Node | None:
@@ -170,10 +164,14 @@ def compose(text: str, limits: Limits) -> Node | None:
             parent.value.append((key, node))
             pending[-1] = None
 
+    next_event = _event_source(text)
+    ScalarEvent, MappingStartEvent, SequenceStartEvent = ev.ScalarEvent, ev.MappingStartEvent, ev.SequenceStartEvent
+    MappingEndEvent, SequenceEndEvent, AliasEvent, StreamEndEvent = ev.MappingEndEvent, ev.SequenceEndEvent, ev.AliasEvent, ev.StreamEndEvent
     try:
-        for event in _events(text):
+        while True:
+            event = next_event()
             cls = event.__class__
-            if cls is ev.ScalarEvent:
+            if cls is ScalarEvent:
                 mark = event.start_mark
                 tag = event.tag
                 if tag is not None and tag not in _SCALAR_TAGS:
@@ -182,36 +180,38 @@ def compose(text: str, limits: Limits) -> Node | None:
                 if event.anchor:
                     anchors[event.anchor] = node
                 attach(node)
-            elif cls is ev.MappingStartEvent or cls is ev.SequenceStartEvent:
+            elif cls is MappingStartEvent or cls is SequenceStartEvent:
                 mark = event.start_mark
                 tag = event.tag
-                allowed = _MAP_TAGS if cls is ev.MappingStartEvent else _SEQ_TAGS
+                allowed = _MAP_TAGS if cls is MappingStartEvent else _SEQ_TAGS
                 if tag is not None and tag not in allowed:
                     raise problem(event, _tag_message(tag))
                 if len(stack) + 1 > limits.max_depth:
                     raise problem(event, f"nesting deeper than {limits.max_depth} levels; limit max_depth")
-                node = (MappingNode if cls is ev.MappingStartEvent else SequenceNode)(mark.line + 1, mark.column + 1, tag)
+                node = (MappingNode if cls is MappingStartEvent else SequenceNode)(mark.line + 1, mark.column + 1, tag)
                 if event.anchor:
                     anchors[event.anchor] = node
                 stack.append(node)
                 open_ids.add(id(node))
-                if cls is ev.MappingStartEvent:
+                if cls is MappingStartEvent:
                     keys.append({})
                     pending.append(None)
-            elif cls is ev.MappingEndEvent or cls is ev.SequenceEndEvent:
+            elif cls is MappingEndEvent or cls is SequenceEndEvent:
                 node = stack.pop()
                 open_ids.discard(id(node))
-                if cls is ev.MappingEndEvent:
+                if cls is MappingEndEvent:
                     keys.pop()
                     pending.pop()
                 attach(node)
-            elif cls is ev.AliasEvent:
+            elif cls is AliasEvent:
                 target = anchors.get(event.anchor)
                 if target is None:
                     raise problem(event, f"alias *{event.anchor} names no anchor")
                 if id(target) in open_ids:
                     raise problem(event, f"alias *{event.anchor} refers to the value that contains it")
                 attach(target)
+            elif cls is StreamEndEvent:
+                break
             elif cls is ev.DocumentStartEvent:
                 documents += 1
                 if documents > 1:

@@ -112,3 +112,12 @@ def test_core_never_imports_plugins():
             if name.endswith(".py"):
                 with open(os.path.join(folder, name), encoding="utf-8") as handle:
                     assert "ctllint_plugins" not in handle.read(), name
+
+
+def test_lazy_command_table_matches_the_commands():
+    from ctllint import commands
+    from ctllint.cli import COMMANDS
+
+    commands.load()
+    for name, (_, help_text) in commands.LAZY.items():
+        assert COMMANDS[name][2] == help_text, name

@@ -1,10 +1,28 @@
-"""Further ``ctllint`` sub-commands, one module each.
+"""Further ``ctllint`` sub-commands, one module each, imported only when used.
 
 A module registers itself with ``ctllint.cli.command(name, help)`` applied
-to a ``(configure, run)`` pair; importing this package imports them all.
+to a ``(configure, run)`` pair. ``LAZY`` maps each command to its module and
+its one-line help, so that ``ctllint check`` starts without importing the
+drawing, report and diff code, and ``ctllint --help`` still lists them all.
+A test checks that these help lines match the modules' own.
 """
-import importlib
-import pkgutil
+from __future__ import annotations
 
-for _info in sorted(pkgutil.iter_modules(__path__), key=lambda m: m.name):
-    importlib.import_module(f"{__name__}.{_info.name}")
+import importlib
+
+LAZY: dict[str, tuple[str, str]] = {
+    "schema": ("project", "print a JSON Schema (draft-07) of the file format for editors"),
+    "init": ("project", "write a starter configuration, pre-commit entry and example schematic (never overwrites)"),
+    "draw": ("view", "draw a schematic as SVG: rails, numbered rungs, wire numbers, symbols, coil cross-references, findings marked"),
+    "report": ("view", "check schematics and write one self-contained HTML page with drawings and linked findings"),
+    "xref": ("view", "coil cross-reference: where each coil's NO and NC contacts are used, against the contacts available"),
+    "simulate": ("view", "run the behaviour model step by step and print every load's state after each step"),
+    "diff": ("diff", "show what changed electrically between two revisions of schematics (files or git revisions)"),
+}
+
+
+def load(name: str | None = None) -> None:
+    """Import the module of command ``name``, or of every command when ``name`` is None."""
+    modules = {LAZY[name][0]} if name in LAZY else ({m for m, _ in LAZY.values()} if name is None else set())
+    for module in sorted(modules):
+        importlib.import_module(f"{__name__}.{module}")
