@@ -59,6 +59,7 @@ reported by other rules) are left out of every analysis, as if not drawn.
 from __future__ import annotations
 
 import functools
+import itertools
 import gc
 from collections import deque
 from functools import cached_property
@@ -843,13 +844,21 @@ class Circuit:
             return None
         # ``without`` holds elements, or element indices (``cut`` builds a
         # reusable set of them once for callers asking many times).
-        skip = without if isinstance(without, frozenset) else frozenset(x if isinstance(x, int) else x.index for x in without)
+        if isinstance(without, frozenset) and all(isinstance(x, int) for x in itertools.islice(without, 1)):
+            skip = without
+        else:
+            skip = frozenset(x if isinstance(x, int) else x.index for x in without)
         if load.index in skip:
             return None
-        if not skip:
-            if route.path is None:
-                route.path = self._assemble(load, route.paths)
-            ids = route.path
+        if route.path is None:
+            route.path = self._assemble(load, route.paths)
+        # Fast answers from what is already known of this load, checked from
+        # the smaller side so a large cut costs no more than a small one.
+        series = self._series_set(load)
+        if len(skip) <= len(series) and any(i in series for i in skip) or len(skip) > len(series) and any(i in skip for i in series):
+            return None  # an element on every energizing path is removed
+        if not any(i in skip for i in route.path):
+            ids = route.path  # the known path survives the cut
         else:
             s = route.supply
             paths = _two_paths(route.edges, s.hot, s.common, load.left, load.right, skip)
