@@ -144,6 +144,15 @@ def write_output(text: str, output: str | None) -> None:
 
     if os.path.isdir(output):
         raise UsageError(f"ctllint: cannot write {output}: it is a folder")
+    if os.path.exists(output) and not os.path.isfile(output):
+        # A device or pipe (/dev/null, /dev/stdout, a FIFO): write into it; a
+        # rename would replace the device itself with a plain file.
+        try:
+            with open(output, "w", encoding="utf-8", newline="\n") as handle:
+                handle.write(text)
+        except OSError as exc:
+            raise UsageError(f"ctllint: cannot write {output}: {exc.strerror or exc}") from None
+        return
     try:  # keep the permissions of the file replaced (mkstemp makes it 0600)
         mode = stat.S_IMODE(os.stat(output).st_mode)
     except OSError:

@@ -26,6 +26,12 @@ Layout, rung by rung:
   The element gets an outline in the colour of its worst finding, and each
   rule name is written under it, in lanes that never overlap.
 
+For a review of changes, ``layout`` can draw only some rungs (``rungs``:
+each keeps its number, supply and cross-references) and mark elements as
+removed, added or moved (``marks``, see ``Mark``): a dashed or solid
+outline in the change's colour, a minus or plus badge, and words under
+the element, in the same lanes as rule names.
+
 All text uses a monospaced face, so a label's width is known exactly
 (``text_width``) and the layout can keep labels apart.
 """
@@ -79,7 +85,7 @@ MAX_COLUMN_WIDTH = 124
 TEXT_SIZE = {
     "title": SIZE_TITLE, "sub": SIZE_SUB, "tag": SIZE_TAG, "letter": SIZE_TAG, "wire": SIZE_WIRE,
     "rungno": SIZE_RUNG, "xref": SIZE_XREF, "caption": SIZE_CAPTION, "railname": SIZE_RAIL,
-    "supply": SIZE_SUB, "rule": SIZE_RULE, "legend": SIZE_SUB,
+    "supply": SIZE_SUB, "rule": SIZE_RULE, "legend": SIZE_SUB, "changelabel": SIZE_RULE,
 }
 
 INK = "#1b1f24"
@@ -87,6 +93,15 @@ WIRE_INK = "#1d5fa6"
 MUTED = "#5c6670"
 SEVERITY_COLOUR = {Severity.ERROR: "#c62828", Severity.WARNING: "#b26a00", Severity.INFO: "#1565c0"}
 SEVERITY_TINT = {Severity.ERROR: "#fdecea", Severity.WARNING: "#fff4e0", Severity.INFO: "#e8f1fb"}
+
+# Change marks (see ``Mark``): one colour for what left the drawing of the old
+# revision, another for what arrived in the new one, both clear of the
+# severity colours and told apart by line style and words as well as hue
+# (dashed "gone from here", solid "new here"; reddish purple and bluish
+# green stay distinct with the common colour-vision deficiencies).
+CHANGE_COLOUR = {"removed": "#a8336f", "moved-from": "#a8336f", "added": "#00785a", "moved-to": "#00785a"}
+CHANGE_TINT = {"removed": "#f9e8f1", "moved-from": "#f9e8f1", "added": "#e3f4ee", "moved-to": "#e3f4ee"}
+CHANGE_DASH = {"removed": "6 3", "moved-from": "6 3", "added": "", "moved-to": ""}
 
 # Letters for loads that are neither coils nor lamps (a circle with a letter).
 LOAD_LETTER = {"solenoid": "S", "horn": "H", "plc-input": "I"}
@@ -113,6 +128,19 @@ def _n(value: float) -> str:
 
 # -- layout data -------------------------------------------------------------------
 
+@dataclass(frozen=True)
+class Mark:
+    """A change to show on one element of a drawing of one revision.
+
+    ``change`` is "removed" or "moved-from" (on the old revision's drawing),
+    "added" or "moved-to" (on the new one's); ``label`` is written under the
+    element ("removed", "moved to wires 2\u20135").
+    """
+
+    change: str
+    label: str
+
+
 @dataclass
 class Placed:
     """An element placed in the drawing."""
@@ -127,6 +155,7 @@ class Placed:
     findings: list[Diagnostic] = field(default_factory=list)
     cx: float = 0.0
     y: float = 0.0
+    mark: Mark | None = None
 
 
 @dataclass
@@ -174,6 +203,7 @@ class Drawing:
     anchors: dict[Diagnostic, str]     # finding -> id of the thing it is drawn on
     unplaced: list[Diagnostic]         # findings with nothing to mark in the drawing
     element_ids: dict[int, str]        # Element.index -> SVG id
+    columns: int = 0                   # the drawing's width in columns (rail to rail)
 
 
 # -- finding matching ----------------------------------------------------------------
@@ -542,7 +572,7 @@ class _Svg:
         self.add(f'<text class="{cls}" x="{_n(x)}" y="{_n(y)}" font-size="{size}"{a}{extra}>{escape(text)}</text>')
 
 
-def _css(prefix: str) -> str:
+def _css(prefix: str, marks: bool = False) -> str:
     p = f"#{prefix}drawing " if prefix else ""
     rules = [
         f"{p}.w{{stroke:{INK};stroke-width:1.6;fill:none;stroke-linecap:round}}",
@@ -571,6 +601,12 @@ def _css(prefix: str) -> str:
         rules.append(f"{p}.sev-{sev}{{fill:{colour}}}")
         rules.append(f"{p}.mark-{sev}{{stroke:{colour};stroke-width:2;fill:{SEVERITY_TINT[sev]};fill-opacity:0.85}}")
     rules.append(f"{p}.el:target .outline,{p}.el.focus .outline{{stroke-width:4}}")
+    if marks:
+        for change, colour in CHANGE_COLOUR.items():
+            dash = f";stroke-dasharray:{CHANGE_DASH[change]}" if CHANGE_DASH[change] else ""
+            rules.append(f"{p}.chg-{change}{{stroke:{colour};stroke-width:2.4;fill:{CHANGE_TINT[change]};fill-opacity:0.9{dash}}}")
+            rules.append(f"{p}.changelabel.chg-{change}{{fill:{colour};stroke:none;font-weight:bold}}")
+        rules.append(f"{p}.chgbadge{{stroke:#ffffff;stroke-width:1.6;stroke-linecap:round;fill:none}}")
     return "".join(rules)
 
 
@@ -626,9 +662,22 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
         svg.text(cx, y + 4, "?", "letter", "middle")
 
 
+def _change_outline(svg: _Svg, p: Placed, half: float, grow: float) -> None:
+    """The outline of a changed element, with a badge at its top right corner:
+    a minus for what left (removed, moved away), a plus for what arrived."""
+    cx, y = p.cx, p.y
+    change = p.mark.change if p.mark else ""
+    svg.add(f'<rect class="change chg-{change}" x="{_n(cx - half)}" y="{_n(y - 29 - grow)}" width="{_n(2 * half)}" height="{_n(44 + 2 * grow)}" rx="5"/>')
+    bx, by = cx + half, y - 29 - grow
+    svg.add(f'<circle cx="{_n(bx)}" cy="{_n(by)}" r="5.5" fill="{CHANGE_COLOUR.get(change, INK)}"/>')
+    svg.line(bx - 3, by, bx + 3, by, "chgbadge")
+    if change in ("added", "moved-to"):
+        svg.line(bx, by - 3, bx, by + 3, "chgbadge")
+
+
 def _outline_half(p: Placed, col_w: float) -> float:
     """Half the width of the outline a marked element gets (0 when it has no findings)."""
-    if not p.findings:
+    if not p.findings and p.mark is None:
         return SYMBOL_HALF
     label = fit(_element_label(p.element), SIZE_TAG, col_w - 8)
     return max(SYMBOL_HALF + 6, text_width(label, SIZE_TAG) / 2 + 5)
@@ -645,7 +694,7 @@ class _Lane:
     x0: float
     x1: float
     text: str
-    diag: Diagnostic
+    diag: Diagnostic | None        # None for a change mark's label
     placed: Placed
     lane: int = 0
 
@@ -726,7 +775,9 @@ def _xref_lines(uses: list[CoilUse], width: float) -> list[tuple[str, str]]:
 
 
 def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: str = "", legend: bool = True,
-           finding_links: dict[Diagnostic, str] | None = None, header: bool = True) -> Drawing:
+           finding_links: dict[Diagnostic, str] | None = None, header: bool = True,
+           rungs: Iterable[int] | None = None, marks: dict[int, Mark] | None = None,
+           min_columns: int = MIN_COLUMNS) -> Drawing:
     """Lay out and draw ``sch`` with ``diagnostics`` marked on their elements.
 
     ``id_prefix`` starts every id in the SVG, so that several drawings can
@@ -735,21 +786,34 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
     ``finding_links`` maps findings to ids elsewhere on the page: the rule
     names drawn for them become links there. ``header`` writes the title,
     path and finding counts above the drawing.
+
+    ``rungs`` draws only the rungs at these 0-based indices (in file order),
+    each keeping its number, its supply and its cross-references to the
+    whole schematic; the default is every rung. ``marks`` maps
+    ``Element.index`` to a ``Mark``: an outline in the change's colour and
+    style with a +/- badge, and its label under the element (as for a
+    review of changes). ``min_columns`` widens the drawing to at least that
+    many columns, so that two drawings can be laid out on the same grid
+    (``Drawing.columns`` tells how many a drawing used).
     """
     links = finding_links or {}
+    marks = marks or {}
     diagnostics = sorted(set(diagnostics))
     by_element, by_supply, unplaced = match_findings(sch, diagnostics)
     uses = coil_uses(sch)
     pre = id_prefix
 
-    # Sections and rung plans.
+    # Sections and rung plans. A rung's supply may come from the rung before
+    # it, so every rung's is worked out even when only some are drawn.
+    drawn = None if rungs is None else set(rungs)
     plans = []
     previous: Supply | None = None
     for rung in sch.rungs:
         sup = _rung_supply(sch, rung, previous)
         previous = sup
-        plans.append(_plan_rung(sch, rung, sup))
-    widest = max([MIN_COLUMNS] + [max(plan[-1].values(), default=0) for plan in plans])
+        if drawn is None or rung.index in drawn:
+            plans.append(_plan_rung(sch, rung, sup))
+    widest = max([MIN_COLUMNS, min_columns] + [max(plan[-1].values(), default=0) for plan in plans])
     last = widest
     layouts: list[RungLayout] = []
     for lay, g, chains, right_side, asap in plans:
@@ -790,6 +854,7 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
                 p.cx = rail_l + (p.slot + 0.5) * col_w
                 p.anchor = f"{pre}el-{p.element.index}"
                 p.findings = by_element.get(p.element.index, [])
+                p.mark = marks.get(p.element.index)
                 element_ids[p.element.index] = p.anchor
                 for d in p.findings:
                     anchors.setdefault(d, p.anchor)
@@ -851,9 +916,12 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
                         continue
                     for p in rp.placed:
                         p.y = line_y
+                        if p.mark is not None:
+                            text = fit(p.mark.label, SIZE_RULE, max(col_w * 2 - 12, SYMBOL_HALF * 2))
+                            labels.append(_Lane(0, text_width(text, SIZE_RULE), text, None, p))
                         for d in p.findings:
                             labels.append(_Lane(0, text_width(d.rule, SIZE_RULE), d.rule, d, p))
-                labels.sort(key=lambda lab: (lab.placed.cx, lab.diag.severity * -1, lab.text))
+                labels.sort(key=lambda lab: (lab.placed.cx, lab.diag.severity * -1 if lab.diag else -9, lab.text))
                 below = sorted({node_x(lay, n) for rp in lay.paths if rp.row == row for n in rp.nodes
                                 if n not in (lay.hot, lay.common) and any(o.row > row and n in o.nodes for o in lay.paths)})
                 lanes = _place_rule_labels(labels, below, rail_l + 6, rail_r - 6)
@@ -935,14 +1003,14 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
     out = [
         f'<svg xmlns="http://www.w3.org/2000/svg" xml:space="preserve" id="{pre}drawing" class="ctllint-drawing" width="{_n(width)}" height="{_n(height)}" viewBox="0 0 {_n(width)} {_n(height)}" data-path={quoteattr(sch.path)} data-columns="{last}">',
         f"<title>{escape(title)}</title>",
-        f"<style>{_css(pre)}</style>",
+        f"<style>{_css(pre, bool(marks))}</style>",
         f'<rect x="0" y="0" width="{_n(width)}" height="{_n(height)}" fill="#ffffff"/>',
         *head.parts,
         *svg.parts,
         *legend_svg.parts,
         "</svg>",
     ]
-    return Drawing("\n".join(out) + "\n", width, height, anchors, [d for d in unplaced if d not in anchors], element_ids)
+    return Drawing("\n".join(out) + "\n", width, height, anchors, [d for d in unplaced if d not in anchors], element_ids, last)
 
 
 def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float, col_w: float,
@@ -1041,8 +1109,13 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
             if rules:
                 worst = max(d.severity for d in p.findings)
                 data += f' data-findings={quoteattr(rules)} data-severity="{worst}"'
+            if p.mark is not None:
+                data += f' data-change="{p.mark.change}" data-change-label={quoteattr(p.mark.label)}'
             svg.add(f'<g class="el" id="{p.anchor}"{data}>')
-            svg.add(f"<title>{escape(el.text)} (line {el.loc.line}, wires {escape(el.left)}\u2013{escape(el.right)})</title>")
+            what = f"; {p.mark.label}" if p.mark is not None else ""
+            svg.add(f"<title>{escape(el.text)} (line {el.loc.line}, wires {escape(el.left)}\u2013{escape(el.right)}{escape(what)})</title>")
+            if p.mark is not None:
+                _change_outline(svg, p, _outline_half(p, col_w) + (3 if p.findings else 0), 3 if p.findings else 0)
             if p.findings:
                 worst = max(d.severity for d in p.findings)
                 half = _outline_half(p, col_w)
@@ -1055,11 +1128,15 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
     for cx, y, wire in numbers:
         svg.text(cx, y - WIRE_ABOVE, wire, "wire", "middle", f' data-wire={quoteattr(wire)} data-rung="{rung.number}"')
 
-    # Rule names under marked elements.
+    # Rule names (and change labels) under marked elements.
     for r in range(lay.rows):
         for lab in rule_labels.get((id(lay), r), []):
             d = lab.diag
             y = lay.row_y[r] + LANE_FIRST + lab.lane * LANE_STEP
+            if d is None:
+                change = lab.placed.mark.change if lab.placed.mark else ""
+                svg.text(lab.x0, y, lab.text, f"changelabel chg-{change}", extra=f' data-for="{lab.placed.anchor}"')
+                continue
             tag = "a" if d in links else "g"
             href = f' href="#{links[d]}"' if d in links else ""
             svg.add(f'<{tag} class="finding"{href} data-rule={quoteattr(d.rule)} data-severity="{d.severity}" data-line="{d.line}" data-column="{d.column}" data-for="{lab.placed.anchor}">'

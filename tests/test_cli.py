@@ -227,3 +227,14 @@ def test_init_never_overwrites(project, capsys):
 def test_module_entry_point_runs():
     proc = subprocess.run([sys.executable, "-m", "ctllint", "--version"], capture_output=True, text=True)
     assert proc.returncode == 0 and proc.stdout.startswith("ctllint ")
+
+
+def test_output_to_a_device_is_written_into_not_replaced(project, capsys):
+    """-o /dev/null must not swap the device for a plain file (an atomic rename would, as root)."""
+    before = os.stat(os.devnull)
+    code, out, _ = run(capsys, "check", "--format", "json", "-o", os.devnull)
+    after = os.stat(os.devnull)
+    import stat as st
+
+    assert code == 0 and out == ""
+    assert st.S_ISCHR(after.st_mode) and (after.st_ino, after.st_dev) == (before.st_ino, before.st_dev)
