@@ -21,6 +21,7 @@ Keys::
 """
 from __future__ import annotations
 
+import math
 import os
 import re
 from dataclasses import dataclass, field, fields
@@ -212,8 +213,10 @@ def _build(path: str, data: Any, lines: dict[str, int]) -> Config:
         for k, v in given.items():
             if k not in known:
                 fail(f"limits.{k}", f"unknown limit '{k}' (allowed: {', '.join(known)})")
-            if isinstance(v, bool) or not isinstance(v, (int, float)) or v <= 0:
+            if isinstance(v, bool) or not isinstance(v, (int, float)) or not v > 0:
                 fail(f"limits.{k}", f"limit '{k}' must be a positive number")
+            if not math.isfinite(v) and k != "plugin_seconds":
+                fail(f"limits.{k}", f"limit '{k}' must be a finite number (only plugin_seconds may be .inf, for no time limit)")
             values[k] = type(getattr(Limits(), k))(v)
         cfg.limits = Limits(**values)
     if "cache" in data:

@@ -51,7 +51,9 @@ def discover(paths: list[str], exclude: list[str] = (), base: str | None = None)
 
     A file named on the command line is checked whatever its name; folders
     are searched for ``*.ctl.yaml`` and ``*.ctl.yml``. Symbolic links to
-    folders are not followed, so a link loop cannot trap the search.
+    folders are not followed, so a link loop cannot trap the search. A
+    folder that cannot be listed becomes a target of its own, so that
+    reading it reports why instead of its files going unchecked.
     """
     found: dict[str, Target] = {}
     missing: list[str] = []
@@ -60,7 +62,11 @@ def discover(paths: list[str], exclude: list[str] = (), base: str | None = None)
             missing.append(given)
             continue
         if os.path.isdir(given) and not is_schematic_name(given.rstrip("/\\")):
-            for folder, dirs, files in os.walk(given, followlinks=False):
+            def unreadable(exc: OSError) -> None:  # a folder that cannot be listed is reported, not skipped in silence
+                where = exc.filename or given
+                found.setdefault(os.path.abspath(where), Target(where, display_path(where)))
+
+            for folder, dirs, files in os.walk(given, onerror=unreadable, followlinks=False):
                 dirs[:] = sorted(d for d in dirs if d not in SKIP_DIRS and not (d.startswith(".") and d not in (".", "..")))
                 names = sorted(files) + sorted(d for d in os.listdir(folder) if is_schematic_name(d) and os.path.isdir(os.path.join(folder, d)))
                 for name in names:

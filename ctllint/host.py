@@ -129,7 +129,7 @@ class PluginHost:
                 value = impl.function(**{a: kwargs[a] for a in impl.argnames})
                 if value is not None:
                     value = list(value)
-            except Exception as exc:  # noqa: BLE001
+            except (Exception, SystemExit) as exc:  # noqa: BLE001 - sys.exit() in a plugin must not end the run
                 self.problems.append(PluginProblem(impl.plugin_name, f"{hook} raised {_one_line(exc)}"))
                 continue
             if value is not None:
@@ -141,6 +141,8 @@ class PluginHost:
             for kind in kinds:
                 if not isinstance(kind, DeviceKind):
                     self.problems.append(PluginProblem(plugin, f"ctllint_device_kinds returned {type(kind).__name__}, not a DeviceKind"))
+                elif _kind_problem(kind):
+                    self.problems.append(PluginProblem(plugin, f"device kind {kind.name!r}: {_kind_problem(kind)}"))
                 elif kind.name in self.kinds:
                     self.problems.append(PluginProblem(plugin, f"device kind '{kind.name}' is already defined"))
                 else:
@@ -148,7 +150,11 @@ class PluginHost:
         for plugin, rules in self.call_each("ctllint_rules"):
             for rule in rules:
                 if not isinstance(rule, Rule) or not callable(getattr(rule, "check", None)):
-                    self.problems.append(PluginProblem(plugin, f"ctllint_rules returned {type(rule).__name__}, not a Rule"))
+                    what = f"rule {rule.name!r} whose check is not callable" if isinstance(rule, Rule) else type(rule).__name__
+                    self.problems.append(PluginProblem(plugin, f"ctllint_rules returned {what}, not a Rule"))
+                    continue
+                if _rule_problem(rule):
+                    self.problems.append(PluginProblem(plugin, f"rule {rule.name!r}: {_rule_problem(rule)}"))
                     continue
                 if rule.name in self.rules or rule.name in CORE_RULES:
                     other = self.rules[rule.name].plugin if rule.name in self.rules else "core"
@@ -163,6 +169,34 @@ class PluginHost:
                 else:
                     self.problems.append(PluginProblem(plugin, f"output format {getattr(fmt, 'name', fmt)!r} is not an OutputFormat or is already registered"))
         self.rules = dict(sorted(self.rules.items()))
+
+
+def _rule_problem(rule: Rule) -> str | None:
+    """Why a registered Rule cannot be used, or None."""
+    from .api import Option
+
+    if not isinstance(rule.name, str) or not rule.name:
+        return "its name is not a non-empty text"
+    if not isinstance(rule.severity, Severity):
+        return f"its severity {rule.severity!r} is not a ctllint.model.Severity"
+    if not isinstance(rule.options, dict) or not all(isinstance(k, str) and isinstance(o, Option) for k, o in rule.options.items()):
+        return "its options are not a mapping of names to ctllint.api.Option"
+    return None
+
+
+def _kind_problem(kind: DeviceKind) -> str | None:
+    """Why a registered DeviceKind cannot be used, or None."""
+    from .kinds import FieldSpec
+
+    if not isinstance(kind.name, str) or not kind.name:
+        return "its name is not a non-empty text"
+    if not isinstance(kind.fields, dict) or not all(isinstance(k, str) and isinstance(f, FieldSpec) for k, f in kind.fields.items()):
+        return "its fields are not a mapping of names to ctllint.kinds.FieldSpec"
+    for attr in ("required", "parts"):
+        value = getattr(kind, attr)
+        if not isinstance(value, (tuple, list)) or not all(isinstance(v, str) for v in value):
+            return f"its {attr} is not a list of names"
+    return None
 
 
 def _one_line(exc: BaseException) -> str:
@@ -185,12 +219,23 @@ def plugin_error(path: str, message: str) -> Diagnostic:
 
 
 class _Deadline:
-    """Raise PluginTimeout in the main thread when a file's rules run too long."""
+    """Raise PluginTimeout in the main thread when a file's rules run too long.
+
+    The signal raises only while plugin code runs (``armed``): landing in the
+    host's own bookkeeping it would escape as a traceback. A rule that
+    swallows the exception is interrupted again every quarter second until
+    it returns. When a rule had to be stopped, the rules after it share one
+    more period (``extend``), so that one runaway rule does not silence the
+    others; a file's rules thus take at most twice the limit.
+    """
 
     def __init__(self, seconds: float):
-        self.seconds = seconds
-        self.usable = seconds > 0 and hasattr(signal, "setitimer") and threading.current_thread() is threading.main_thread()
+        # no limit when infinite or absurd (the timer cannot hold it); at least a millisecond (a smaller one disarms it)
+        self.seconds = max(seconds, 0.001) if 0 < seconds < 1e8 else 0
+        self.usable = self.seconds > 0 and hasattr(signal, "setitimer") and threading.current_thread() is threading.main_thread()
         self.started = 0.0
+        self.armed = False
+        self.extended = False
 
     def __enter__(self) -> "_Deadline":
         self.started = time.monotonic()
@@ -200,7 +245,18 @@ class _Deadline:
         return self
 
     def _fire(self, signum: int, frame: Any) -> None:
-        raise PluginTimeout()
+        if self.armed:
+            signal.setitimer(signal.ITIMER_REAL, 0.25)
+            raise PluginTimeout()
+
+    def extend(self) -> None:
+        """After a rule was stopped: once, give the remaining rules one more period."""
+        if self.extended:
+            return
+        self.extended = True
+        self.started = time.monotonic()
+        if self.usable:
+            signal.setitimer(signal.ITIMER_REAL, self.seconds)
 
     def __exit__(self, *exc: Any) -> None:
         if self.usable:
@@ -218,6 +274,8 @@ def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings) ->
     path = schematic.path
     out: list[Diagnostic] = []
     circuit = Circuit(schematic)
+    lines = max(1, len(schematic.text_lines))
+    cap = MAX_FINDINGS + 10 * (lines + len(schematic.elements))
     with _Deadline(settings.time_limit) as deadline:
         for name in settings.enabled:
             rule = host.rules.get(name)
@@ -228,30 +286,48 @@ def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings) ->
                 continue
             ctx = CheckContext(schematic, circuit, settings.options.get(name, {}), rule, host.kinds)
             try:
-                found = list(rule.check(ctx) or ())
+                deadline.armed = True
+                try:
+                    found = _take(rule.check(ctx), cap)
+                finally:  # disarmed before any handler below runs
+                    deadline.armed = False
             except PluginTimeout:
                 out.append(plugin_error(path, f"rule {name} ({rule.plugin}) did not finish within {settings.time_limit:g} s (limits.plugin_seconds) and was stopped"))
+                deadline.extend()
                 continue
             except RecursionError:
                 out.append(plugin_error(path, f"rule {name} ({rule.plugin}) raised RecursionError"))
                 continue
-            except Exception as exc:  # noqa: BLE001
+            except (Exception, SystemExit) as exc:  # noqa: BLE001 - sys.exit() in a rule must not end the run
                 out.append(plugin_error(path, f"rule {name} ({rule.plugin}) raised {_one_line(exc)}"))
                 continue
-            out.extend(_to_diagnostics(found, rule, settings, path))
+            if found is None:
+                out.append(plugin_error(path, f"rule {name} ({rule.plugin}) gave more than {cap} findings for one file; none of them are shown"))
+                continue
+            out.extend(_to_diagnostics(found, rule, settings, path, lines))
         caller = host.pm.hook.ctllint_check
         for impl in caller.get_hookimpls():
             if impl.hookwrapper or getattr(impl, "wrapper", False):
                 continue
+            if deadline.expired():
+                out.append(plugin_error(path, f"plugin {impl.plugin_name} did not run its check: the file's rules passed the time limit of {settings.time_limit:g} s (limits.plugin_seconds)"))
+                continue
             ctx = CheckContext(schematic, circuit, {}, None, host.kinds)
             try:
-                value = impl.function(**{a: {"context": ctx}[a] for a in impl.argnames})
-                pairs = list(value or ())
+                deadline.armed = True
+                try:
+                    pairs = _take(impl.function(**{a: {"context": ctx}[a] for a in impl.argnames}), cap)
+                finally:
+                    deadline.armed = False
             except PluginTimeout:
                 out.append(plugin_error(path, f"plugin {impl.plugin_name} did not finish its check within {settings.time_limit:g} s"))
+                deadline.extend()
                 continue
-            except Exception as exc:  # noqa: BLE001
+            except (Exception, SystemExit) as exc:  # noqa: BLE001
                 out.append(plugin_error(path, f"plugin {impl.plugin_name} raised {_one_line(exc)}"))
+                continue
+            if pairs is None:
+                out.append(plugin_error(path, f"plugin {impl.plugin_name} gave more than {cap} findings from ctllint_check; none of them are shown"))
                 continue
             for pair in pairs:
                 try:
@@ -259,21 +335,56 @@ def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings) ->
                 except (TypeError, ValueError):
                     out.append(plugin_error(path, f"plugin {impl.plugin_name} returned {type(pair).__name__} from ctllint_check, not (rule, Finding)"))
                     break
-                rule = host.rules.get(rule_name)
+                rule = host.rules.get(rule_name) if isinstance(rule_name, str) else None
                 if rule is None or rule.plugin != impl.plugin_name:
                     out.append(plugin_error(path, f"plugin {impl.plugin_name} reported rule {rule_name!r}, which it did not register"))
                     continue
                 if rule_name in settings.enabled:
-                    out.extend(_to_diagnostics([finding], rule, settings, path))
+                    out.extend(_to_diagnostics([finding], rule, settings, path, lines))
     return out
 
 
-def _to_diagnostics(found: list[Any], rule: Rule, settings: RuleSettings, path: str) -> list[Diagnostic]:
+# Findings one rule may give for one file, beyond ten per line and per element
+# (a flow-style path holds many elements on one line): a rule that yields
+# without end is stopped here rather than filling the memory.
+MAX_FINDINGS = 100_000
+
+
+def _take(value: Any, cap: int) -> list[Any] | None:
+    """The first findings of ``value`` as a list, or None when there are more than ``cap``."""
+    if value is None:
+        return []
+    found = []
+    for item in value:
+        found.append(item)
+        if len(found) > cap:
+            return None
+    return found
+
+
+def _finding_problem(f: Any, path: str, lines: int | None) -> str | None:
+    """Why a rule's finding cannot be reported, or None."""
+    if not isinstance(f, Finding) or not isinstance(f.at, Location):
+        return f"returned {type(f).__name__}, not a Finding with a Location"
+    at = f.at
+    if not isinstance(at.path, str) or any(not isinstance(n, int) or isinstance(n, bool) for n in (at.line, at.column)):
+        return f"returned a Finding whose Location {at!r} is not (path text, line number, column number)"
+    if not isinstance(f.message, str) or not isinstance(f.subject, str):
+        return "returned a Finding whose message or subject is not text"
+    if f.severity is not None and not isinstance(f.severity, Severity):
+        return f"returned a Finding whose severity {f.severity!r} is not a Severity"
+    if at.line < 1 or at.column < 1 or (lines is not None and at.path == path and at.line > lines):
+        return f"returned a Finding at line {at.line}, column {at.column}, outside {at.path} ({f.message})"
+    return None
+
+
+def _to_diagnostics(found: list[Any], rule: Rule, settings: RuleSettings, path: str, lines: int | None = None) -> list[Diagnostic]:
     out = []
     severity = settings.severities.get(rule.name, rule.severity)
     for f in found:
-        if not isinstance(f, Finding) or not isinstance(f.at, Location) or not isinstance(f.message, str):
-            return [plugin_error(path, f"rule {rule.name} ({rule.plugin}) returned {type(f).__name__}, not a Finding with a Location")]
+        problem = _finding_problem(f, path, lines)
+        if problem:
+            return [plugin_error(path, f"rule {rule.name} ({rule.plugin}) {problem}")]
         sev = severity
         if f.severity is not None and rule.name not in settings.severities:
             sev = f.severity

@@ -115,14 +115,24 @@ def read_text(path: str, limits: Limits) -> tuple[str | None, Diagnostic | None]
         # Non-blocking open, then fstat: a named pipe, a socket or a device
         # (a link to /dev/zero, say) is refused instead of blocking or reading forever.
         fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
-        with os.fdopen(fd, "rb") as handle:
+        try:
             info = os.fstat(fd)
+        except OSError:
+            os.close(fd)
+            raise
+        if not stat.S_ISREG(info.st_mode):
+            os.close(fd)
             if stat.S_ISDIR(info.st_mode):
+                try:
+                    os.scandir(path).close()
+                except OSError as exc:  # discovery could not list it either: say so
+                    return None, format_error(path, 1, 1, f"folder cannot be read ({exc.strerror or exc}): the schematics in it are not checked")
                 return None, format_error(path, 1, 1, "is a folder, not a schematic file")
-            if not stat.S_ISREG(info.st_mode):
-                return None, format_error(path, 1, 1, "is not a regular file (a pipe, socket or device), so it is not read")
-            if info.st_size > limits.max_file_bytes:
-                return None, format_error(path, 1, 1, f"file is {info.st_size / 1e6:.1f} MB, above the limit of {limits.max_file_bytes / 1e6:.1f} MB (limits.max_file_bytes)")
+            return None, format_error(path, 1, 1, "is not a regular file (a pipe, socket or device), so it is not read")
+        if info.st_size > limits.max_file_bytes:
+            os.close(fd)
+            return None, format_error(path, 1, 1, f"file is {info.st_size / 1e6:.1f} MB, above the limit of {limits.max_file_bytes / 1e6:.1f} MB (limits.max_file_bytes)")
+        with os.fdopen(fd, "rb") as handle:
             data = handle.read(limits.max_file_bytes + 1)
         if len(data) > limits.max_file_bytes:
             return None, format_error(path, 1, 1, f"file is above the limit of {limits.max_file_bytes / 1e6:.1f} MB (limits.max_file_bytes)")
@@ -543,7 +553,10 @@ class _Loader:
                 self.error(item, f"use path '{rel}' leaves the repository ({root})")
                 continue
             if not os.path.isfile(real):
-                self.error(item, f"use path '{rel}' does not exist" if not os.path.exists(target) else f"use path '{rel}' is not a readable file")
+                if os.path.lexists(target) and not os.path.exists(target):
+                    self.error(item, f"use path '{rel}' is a broken or looping symbolic link")
+                else:
+                    self.error(item, f"use path '{rel}' does not exist" if not os.path.exists(target) else f"use path '{rel}' is not a readable file")
                 continue
             me = os.path.realpath(self.real_path)
             if real == me or real in _USE_CHAIN:
@@ -683,6 +696,8 @@ class _Loader:
         items = self.sequence(node, "a path")
         if len(items) < 3 or len(items) % 2 == 0:
             self.fail(node, "a path alternates wires and elements, beginning and ending with a wire: [wire, element, wire, ...]")
+        if counter + len(items) // 2 > self.limits.max_elements:  # refused before the elements are built
+            self.fail(node, f"more than {self.limits.max_elements} elements; limit max_elements")
         wires: list[str] = []
         wire_locs: list[Location] = []
         refs: list[tuple[str, str | None, str, Node]] = []

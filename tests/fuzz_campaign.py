@@ -69,7 +69,7 @@ def worker(args: argparse.Namespace) -> int:
 
     signal.signal(signal.SIGVTALRM, on_hang)  # CPU time: the rules' own limit uses SIGALRM
     deadline = time.monotonic() + args.seconds if args.seconds else None
-    seed, count = args.seed + args.worker, 0
+    seed, count, loaded = args.seed + args.worker, 0, 0
     while (args.inputs is None or count < args.inputs) and (deadline is None or time.monotonic() < deadline):
         rng = random.Random(seed)
         base = rng.choice(tf.BASES)
@@ -82,6 +82,7 @@ def worker(args: argparse.Namespace) -> int:
         try:
             rc, out, err = tf.run_cli(ws.argv(path))
             problems = tf.problems_with(rc, out, err, path, data)
+            loaded += rc in (0, 1) and '"rule": "format"' not in out
             if args.strict:
                 problems += [f"rule failed: {m}" for m in _plugin_crashes(tf, out)]
         except Hang:
@@ -93,11 +94,12 @@ def worker(args: argparse.Namespace) -> int:
         took = time.monotonic() - started
         count += 1
         if problems:
-            print(json.dumps({"seed": seed, "base": base.rel, "problems": problems, "seconds": round(took, 2), "data": data.decode("latin-1")}), flush=True)
+            where = save(args.out, seed, base.rel, data, problems)
+            print(json.dumps({"seed": seed, "base": base.rel, "problem": problems[0].splitlines()[0], "saved": where}), flush=True)
         elif took > args.slow_seconds:
             print(json.dumps({"seed": seed, "base": base.rel, "slow": round(took, 2)}), flush=True)
         seed += args.stride
-    print(json.dumps({"done": count}), flush=True)
+    print(json.dumps({"done": count, "loaded": loaded}), flush=True)
     os.unlink(current) if os.path.exists(current) else None
     return 0
 
@@ -128,24 +130,42 @@ def campaign(args: argparse.Namespace) -> int:
         if args.strict:
             cmd.append("--strict")
         procs.append((w, subprocess.Popen(cmd, stdout=subprocess.PIPE, text=True, env={**os.environ, "PYTHONHASHSEED": "0"})))
-    for w, proc in procs:
-        done = None
+    import queue
+    import threading
+
+    lines: "queue.Queue[tuple[int, str | None]]" = queue.Queue()
+
+    def pump(w: int, proc: subprocess.Popen) -> None:  # one reader per worker, so that no pipe fills and blocks it
         for line in proc.stdout:
-            try:
-                msg = json.loads(line)
-            except ValueError:
-                print(line, end="")
-                continue
-            if "done" in msg:
-                done = msg["done"]
-            elif "slow" in msg:
-                slow.append((msg["slow"], msg["seed"], msg["base"]))
-            else:
-                failures += 1
-                where = save(args.out, msg["seed"], msg["base"], msg["data"].encode("latin-1"), msg["problems"])
-                print(f"FAIL seed {msg['seed']} ({msg['base']}): {msg['problems'][0].splitlines()[0]} -> {where}", flush=True)
+            lines.put((w, line))
+        lines.put((w, None))
+
+    for w, proc in procs:
+        threading.Thread(target=pump, args=(w, proc), daemon=True).start()
+    done: dict[int, int | None] = {w: None for w, _ in procs}
+    loaded = 0
+    running = len(procs)
+    while running:
+        w, line = lines.get()
+        if line is None:
+            running -= 1
+            continue
+        try:
+            msg = json.loads(line)
+        except ValueError:
+            print(line, end="")
+            continue
+        if "done" in msg:
+            done[w] = msg["done"]
+            loaded += msg["loaded"]
+        elif "slow" in msg:
+            slow.append((msg["slow"], msg["seed"], msg["base"]))
+        else:
+            failures += 1
+            print(f"FAIL seed {msg['seed']} ({msg['base']}): {msg['problem']} -> {msg['saved']}", flush=True)
+    for w, proc in procs:
         rc = proc.wait()
-        if done is None:  # the worker died: save the input it was running
+        if done[w] is None:  # the worker died: save the input it was running
             current = os.path.join(args.out, f".current-{w}")
             with open(current, "rb") as handle:
                 head, _, data = handle.read().partition(b"\n")
@@ -154,10 +174,10 @@ def campaign(args: argparse.Namespace) -> int:
             where = save(args.out, info["seed"], info["base"], data, [f"the worker process died (exit status {rc}, signal {-rc if rc < 0 else 0})"])
             print(f"CRASH seed {info['seed']} ({info['base']}): worker exit {rc} -> {where}", flush=True)
             os.unlink(current)
-            done = 0
-        total += done
+        total += done[w] or 0
     elapsed = time.monotonic() - started
-    print(f"inputs run: {total} in {elapsed:.0f} s ({total / max(elapsed, 1e-9):.1f}/s, {args.jobs} worker(s)); failures: {failures}; saved under {args.out}")
+    print(f"inputs run: {total} in {elapsed:.0f} s ({total / max(elapsed, 1e-9):.1f}/s, {args.jobs} worker(s)); "
+          f"{loaded} loaded and went through every rule, {total - loaded} were format errors; failures: {failures}; saved under {args.out}")
     for took, seed, base in sorted(slow, reverse=True)[:10]:
         print(f"slow: {took:.1f} s seed {seed} ({base})")
     return 1 if failures else 0

@@ -129,8 +129,9 @@ class Mutator:
     can shrink), the campaign a seeded one.
     """
 
-    def __init__(self, rng: random.Random):
+    def __init__(self, rng: random.Random, grow: int = 200):
         self.rng = rng
+        self.grow = grow  # how many devices, rungs or steps op_grow and c_fan_out may add
 
     # -- values ----------------------------------------------------------------
     def unicode_text(self, max_len: int = 12) -> str:
@@ -364,7 +365,7 @@ class Mutator:
         r = self.rng
         if not isinstance(data, dict):
             return data
-        n = r.randint(2, 200)
+        n = r.randint(2, self.grow)
         pick = r.randint(0, 2)
         if pick == 0 and isinstance(data.get("devices"), dict):
             for i in range(n):
@@ -542,7 +543,7 @@ class Mutator:
         p = self.rng.choice(self._paths(data))
         i = self.rng.randrange(1, len(p), 2)
         rung = self.rng.choice(data["rungs"])
-        for n in range(self.rng.randint(2, 150)):
+        for n in range(self.rng.randint(2, self.grow)):
             rung["paths"].append([p[i - 1], p[i], p[i + 1]] if n % 2 else [p[i - 1], p[i], f"f{n}", self.rng.choice(self._elements(data)), p[i + 1]])
 
     def c_steps(self, data: dict) -> None:
@@ -590,11 +591,11 @@ class Mutator:
         pick = r.random()
         if pick < 0.2:
             return self.mutate_text(base.text)
-        if pick < 0.45:
+        if pick < 0.55:
             return self.dump(self.mutate_circuit(json.loads(json.dumps(base.data)))).encode("utf-8", "surrogatepass")
         data = self.mutate_tree(json.loads(json.dumps(base.data)))
         text = self.dump(data)
-        if pick < 0.8:
+        if pick < 0.85:
             return text.encode("utf-8", "surrogatepass")
         return self.mutate_text(text)
 
@@ -699,7 +700,7 @@ def rule_failures(doc: dict) -> list[str]:
 # -- the properties ------------------------------------------------------------------
 
 FUZZ_SETTINGS = settings(
-    max_examples=60,
+    max_examples=150,
     deadline=None,
     suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow, HealthCheck.data_too_large],
 )
@@ -707,7 +708,10 @@ FUZZ_SETTINGS = settings(
 
 @pytest.fixture(scope="module")
 def workspace(tmp_path_factory) -> Workspace:
-    return Workspace(str(tmp_path_factory.mktemp("fuzz")))
+    return Workspace(str(tmp_path_factory.mktemp("fuzz")), plugin_seconds=3)
+
+
+SUITE_GROW = 30  # the suite keeps files small; tests/fuzz_campaign.py grows them to 200
 
 
 def assert_sound(workspace: Workspace, base: Base, data: bytes, capsys) -> None:
@@ -736,7 +740,7 @@ def test_bases_are_valid(workspace, capsys):
 @given(base=st.sampled_from(BASES), rng=st.randoms(use_true_random=False))
 def test_structural_mutations(workspace, capsys, base, rng):
     """Keys deleted, duplicated, renamed, swapped; wrong types; odd quantities; aliases."""
-    m = Mutator(rng)
+    m = Mutator(rng, SUITE_GROW)
     data = m.dump(m.mutate_tree(json.loads(json.dumps(base.data))))
     assert_sound(workspace, base, data.encode("utf-8", "surrogatepass"), capsys)
 
@@ -748,23 +752,23 @@ def test_text_mutations(workspace, capsys, base, rng):
     assert_sound(workspace, base, Mutator(rng).mutate_text(base.text), capsys)
 
 
-@settings(FUZZ_SETTINGS, max_examples=40)
+@settings(FUZZ_SETTINGS, max_examples=100)
 @given(base=st.sampled_from(BASES), rng=st.randoms(use_true_random=False))
 def test_mixed_mutations(workspace, capsys, base, rng):
-    assert_sound(workspace, base, Mutator(rng).mutate(base), capsys)
+    assert_sound(workspace, base, Mutator(rng, SUITE_GROW).mutate(base), capsys)
 
 
-@settings(FUZZ_SETTINGS, max_examples=40)
+@settings(FUZZ_SETTINGS, max_examples=100)
 @given(base=st.sampled_from(BASES), rng=st.randoms(use_true_random=False))
 def test_circuit_mutations(workspace, capsys, base, rng):
     """Rewired paths, self-joined wires, fan-out, bridged rails, long chains, random scenarios:
     files that load, so every rule and the simulator run on them."""
-    m = Mutator(rng)
+    m = Mutator(rng, SUITE_GROW)
     data = m.dump(m.mutate_circuit(json.loads(json.dumps(base.data))))
     assert_sound(workspace, base, data.encode("utf-8", "surrogatepass"), capsys)
 
 
-@settings(FUZZ_SETTINGS, max_examples=40)
+@settings(FUZZ_SETTINGS, max_examples=60)
 @given(data=st.binary(max_size=400))
 @example(b"")
 @example(b"\xef\xbb\xbf")
@@ -778,13 +782,13 @@ def test_any_bytes(workspace, capsys, data):
     assert_sound(workspace, BASES[0], data, capsys)
 
 
-@settings(FUZZ_SETTINGS, max_examples=40)
+@settings(FUZZ_SETTINGS, max_examples=60)
 @given(text=st.text(max_size=300))
 def test_any_text(workspace, capsys, text):
     assert_sound(workspace, BASES[0], text.encode("utf-8", "surrogatepass"), capsys)
 
 
-@settings(FUZZ_SETTINGS, max_examples=30)
+@settings(FUZZ_SETTINGS, max_examples=60)
 @given(
     base=st.sampled_from(BASES),
     value=st.one_of(
@@ -799,7 +803,7 @@ def test_any_text(workspace, capsys, text):
 def test_odd_quantities(workspace, capsys, base, value, rng):
     """Huge, zero, negative, NaN and infinite values wherever a quantity or count stands."""
     data = json.loads(json.dumps(base.data))
-    m = Mutator(rng)
+    m = Mutator(rng, SUITE_GROW)
     slots = [(c, k) for c, k in m.slots(data) if isinstance(c[k], (str, int, float)) and not isinstance(c[k], bool) and any(ch.isdigit() for ch in str(c[k]))]
     for c, k in rng.sample(slots, min(len(slots), rng.randint(1, 3))):
         c[k] = value
