@@ -145,10 +145,7 @@ class Simulator:
         known = [el for el in sch.elements if el.role]
         self._loads = [el for el in known if el.role == "load"]
         coil_tags = {el.tag for el in self._loads if el.part == "coil"}
-        self._load_tags: list[str] = []
-        for el in self._loads:
-            if el.tag not in self._load_tags:
-                self._load_tags.append(el.tag)
+        self._load_tags: list[str] = list(dict.fromkeys(el.tag for el in self._loads))  # file order, once each
         self._kind = {tag: dev.kind for tag, dev in sch.devices.items()}
         self._positions: dict[str, list[str]] = {}
         self._switches: list[str] = []
@@ -178,10 +175,12 @@ class Simulator:
                 self._relays.append(tag)
         # Contacts of a kind a plugin adds: coil-driven when the device has a
         # coil in the rungs, else worked by hand like a switch.
+        switches = set(self._switches)
         for el in known:
             if el.role == "contact" and el.tag not in coil_tags and el.tag in self._kind:
                 kind = self._kind[el.tag]
-                if kind not in _SWITCH_KINDS and kind not in _NOT_SWITCHES and el.tag not in self._switches:
+                if kind not in _SWITCH_KINDS and kind not in _NOT_SWITCHES and el.tag not in switches:
+                    switches.add(el.tag)
                     self._switches.append(el.tag)
         self._switchable = [el for el in known if el.role != "load" and el.left != el.right]
         self._coil_tags = [t for t in self._load_tags if t in coil_tags]
