@@ -305,17 +305,20 @@ def _check_contact(ctx, element: Element, device: Device) -> Iterator[Finding]:
         return
     for supply, figures in _served_figures(ctx, element):
         duty = contact_duty(figures)
-        loads = _names([f.tag for f in figures])
-        duty_text = (
-            f"contact {element.text} serves {loads} on supply {supply.name} ({_volts_text(supply)}): "
-            f"make {_amps(duty.make)}, break {_amps(duty.break_)}, continuous {_amps(duty.continuous)}"
-        )
+
+        def duty_text() -> str:  # worded only for a finding: most contacts pass
+            loads = _names([f.tag for f in figures])
+            return (
+                f"contact {element.text} serves {loads} on supply {supply.name} ({_volts_text(supply)}): "
+                f"make {_amps(duty.make)}, break {_amps(duty.break_)}, continuous {_amps(duty.continuous)}"
+            )
+
         candidates, why_not = rating_limits(rating, supply.voltage.value, supply.current_kind)
         if not candidates:
             if why_not:
                 yield Finding(
                     at=element.loc,
-                    message=f"{duty_text}; {device.tag}'s {why_not}: use a contact rated for this supply",
+                    message=f"{duty_text()}; {device.tag}'s {why_not}: use a contact rated for this supply",
                     subject=_subject(ctx, element),
                 )
             continue
@@ -326,7 +329,7 @@ def _check_contact(ctx, element: Element, device: Device) -> Iterator[Finding]:
         yield Finding(
             at=element.loc,
             message=(
-                f"{duty_text}; {device.tag}'s rating {_limits_text(best)} ({'; '.join(over)}): "
+                f"{duty_text()}; {device.tag}'s rating {_limits_text(best)} ({'; '.join(over)}): "
                 f"drive the loads through an interposing relay or use a contact of higher rating"
             ),
             subject=_subject(ctx, element),
