@@ -385,7 +385,9 @@ def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
         on = f" on supply {supply.name}" if supply is not None else ""
         yield Finding(
             el.loc,
-            f"contact {el.text} serves {count} inductive loads ({_names(loads)}){on}; a mechanical switch should "
+            f"contact {el.text} serves {len(loads)} inductive loads ({_names(loads)}){on}"
+            + (f", {count} counting each interlocked pair that is never on together as one" if count != len(loads) else "")
+            + f"; a mechanical switch should "
             f"carry at most {limit}: it makes their summed inrush current, so drive one interposing relay instead",
             _subject(ctx, el),
         )
@@ -394,11 +396,16 @@ def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
 
 def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
     """("missing" | "bypass" | "ok", contacts the seal bypasses, a path through the bypass)."""
-    own_no = _contacts(ctx, coil.tag, "NO")
-    seals = [m for m in own_no if blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)]
+    # The seal is a NO contact of the coil's own device or of another coil the
+    # same start button energizes: in a star-delta starter or a starter with
+    # its timer, the main contactor's seal-in holds every coil started with it.
+    started = [load.tag for load in circuit.served_loads(start) if load.part == "coil" and load.tag != coil.tag]
+    candidates = _contacts(ctx, coil.tag, "NO") + [m for tag in dict.fromkeys(started) for m in _contacts(ctx, tag, "NO")]
+    seals = [m for m in candidates if blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)]
     if not seals:
         return "missing", [], None
-    coil_key = (coil.tag, coil.left, coil.right)
+    own_no = candidates
+    coil_key = (coil.tag, coil.left, coil.right, start.tag, start.left, start.right)
     if coil_key not in keeps:
         # Stop and overload contacts in series with the coil as the start button sees it (seal open).
         keep = []
@@ -702,7 +709,10 @@ RULES = [
             "the same device, wired across the start contact, holds it in after the button is released. "
             "Without it the motor runs only while the button is held; with a seal-in that also bypasses a "
             "stop or overload contact, the motor can no longer be stopped by it. The rule looks at each "
-            "coil a momentary start button's NO contact serves, unless the rung sets jog: true."
+            "coil a momentary start button's NO contact serves, unless the rung sets jog: true. Coils "
+            "started together by the same button (the star, delta and timer coils of a star-delta "
+            "starter, a starter and its run timer) may share one seal-in: a NO contact of any coil that "
+            "button energizes counts, as long as it bypasses only the start contact."
         ),
         source="common practice (three-wire control, low-voltage protection); NFPA 79 7.5",
         check=check_seal_in,
