@@ -228,6 +228,8 @@ def _run_check(args: argparse.Namespace) -> int:
     if args.format == "text" or args.output:
         tail = summary_line(diagnostics, result.files)
         print(f"ctllint: {tail}", file=sys.stderr)
+        if not result.files:
+            print(f"ctllint: no *.ctl.yaml or *.ctl.yml files under {', '.join(paths)}", file=sys.stderr)
         if diagnostics:
             print(textwrap.fill(SAFETY_NOTE, 78), file=sys.stderr)
     return EXIT_FINDINGS if failed else EXIT_OK

@@ -166,3 +166,20 @@ def build_schema(kinds: KindRegistry | None = None) -> dict[str, Any]:
             {"required": ["ctllint", "devices"], "not": {"anyOf": [{"required": ["supplies"]}, {"required": ["rungs"]}, {"required": ["expect"]}, {"required": ["use"]}]}},
         ],
     }
+
+
+def kinds_table(kinds: KindRegistry | None = None) -> str:
+    """The device kinds as a Markdown table (the README's list, kept current by a test)."""
+    kinds = kinds or KindRegistry.builtin()
+    lines = ["| kind | in paths | fields (required in bold) |", "|---|---|---|"]
+    for name in kinds.names():
+        kind = kinds.get(name)
+        parts = []
+        if kind.positions:
+            parts.append("`TAG.<position>`")
+        parts += [f"`TAG.{p}`" for p in kind.parts]
+        if kind.bare:
+            parts.append(f"`TAG` ({kind.bare})")
+        fields = [f"**`{f}`**" if f in kind.required else f"`{f}`" for f in kind.fields]
+        lines.append(f"| `{name}` | {', '.join(parts) or 'not used in rungs'} | {', '.join(fields)} |")
+    return "\n".join(lines) + "\n"

@@ -121,3 +121,23 @@ def test_lazy_command_table_matches_the_commands():
     commands.load()
     for name, (_, help_text) in commands.LAZY.items():
         assert COMMANDS[name][2] == help_text, name
+
+
+def test_readme_device_kinds_are_current():
+    from ctllint.schema import kinds_table
+
+    with open(os.path.join(ROOT, "README.md"), encoding="utf-8") as handle:
+        readme = handle.read()
+    m = re.search(r"<!-- kinds:start -->\n(.*?)<!-- kinds:end -->", readme, re.S)
+    assert m and m.group(1) == kinds_table(), "README device kinds are stale: regenerate with ctllint.schema.kinds_table()"
+
+
+def test_readme_tour_example_is_clean():
+    """The format tour in the README is a real schematic that obeys every rule."""
+    from ctllint.testing import check_text
+
+    with open(os.path.join(ROOT, "README.md"), encoding="utf-8") as handle:
+        readme = handle.read()
+    tour = readme.split("## A short tour of the format", 1)[1]
+    example = re.search(r"```yaml\n(.*?)```", tour, re.S).group(1)
+    assert check_text(example, "tour.ctl.yaml") == []
