@@ -518,7 +518,7 @@ class Simulator:
                                 kind="check",
                                 step=step,
                                 step_index=index,
-                                location=step.target_locs.get(tag, step.loc),
+                                location=_check_location(step, tag),
                                 tag=tag,
                                 expected=want,
                                 actual=actual,
@@ -551,3 +551,13 @@ class Simulator:
             oscillating=list(result.oscillating),
             shorts=list(result.shorts),
         )
+
+
+def _check_location(step: Step, tag: str) -> Location:
+    """Where a failed check is reported: on the check's line (FORMAT.md), at the tag when it stands there.
+
+    A check written as a block mapping puts its tags on later lines; the
+    finding stays on the line of ``check:`` itself.
+    """
+    at = step.target_locs.get(tag)
+    return at if at is not None and at.line == step.loc.line else step.loc
