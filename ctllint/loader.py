@@ -12,7 +12,7 @@ import os
 import re
 import stat
 from dataclasses import dataclass, field
-from typing import Any, Callable
+from typing import Any, Callable, Iterator
 
 
 
@@ -28,6 +28,7 @@ from .model import (
     Location,
     Path,
     PowerRating,
+    Quantity,
     Rung,
     Scenario,
     Schematic,
@@ -196,6 +197,11 @@ class _Loader:
         self.used: list[str] = []
         self.lines: list[str] = []
         self.line_count = 0
+        # Equal texts built here (wire numbers, tags split from TAG.PART) and
+        # equal quantities share one object: a large panel repeats them
+        # thousands of times. Quantity is frozen, so sharing is safe.
+        self._texts: dict[str, str] = {}
+        self._quantities: dict[tuple[str, str], Quantity] = {}
 
     # -- helpers -------------------------------------------------------
     def loc(self, node: Node) -> Location:
@@ -254,10 +260,10 @@ class _Loader:
         value = self.scalar(node, what)
         if isinstance(value, bool) or value is None or isinstance(value, float):
             self.fail(node, f"{what} must be text or a whole number, not {_describe_value(value)} '{node.value}'")
-        text = str(value)
+        text = value if isinstance(value, str) else str(value)
         if not text.strip() or any(c.isspace() for c in text):
             self.fail(node, f"{what} '{text}' is empty or holds a space")
-        return text
+        return self._texts.setdefault(text, text)
 
     def tag(self, node: Node, what: str) -> str:
         value = self.scalar(node, what)
@@ -269,10 +275,16 @@ class _Loader:
 
     def quantity(self, node: Node, dimension: str, what: str):
         value = self.scalar(node, what)
+        if isinstance(value, str):  # only text is a quantity: a bare number has no unit
+            found = self._quantities.get((value, dimension))
+            if found is not None:
+                return found
         try:
-            return parse_quantity(value, dimension)
+            quantity = parse_quantity(value, dimension)
         except QuantityError as exc:
             self.fail(node, f"{what}: {exc}")
+        self._quantities[(value, dimension)] = quantity
+        return quantity
 
     def unknown_key(self, knode: Node, key: str, where: str, allowed: tuple[str, ...]) -> None:
         hint = _closest(key, allowed)
@@ -289,7 +301,7 @@ class _Loader:
             check_tree(root, self.limits)
         except YamlProblem as exc:
             return self._done(None, [format_error(self.path, *within(self.lines, exc.line, exc.column), exc.message)])
-        sch = Schematic(path=self.path, loc=self.loc(root), text_lines=text.splitlines())
+        sch = Schematic(path=self.path, loc=self.loc(root), text_lines=self.lines)
         try:
             self.read_top(root, sch)
         except _Stop:
@@ -309,6 +321,12 @@ class _Loader:
         for key, knode, _ in entries:
             if key not in TOP_KEYS:
                 self.unknown_key(knode, key, "the top level", TOP_KEYS)
+        # From here ``keys`` holds the only references to the sections, and
+        # each is let go once read (``keys.pop``): the readers of the large
+        # ones drop each item's nodes as they go, so the node tree shrinks
+        # while the model grows instead of both being alive in full.
+        root.value.clear()
+        del entries
         if "ctllint" not in keys:
             self.fail(root, "missing 'ctllint: 1' (the format version) at the top level")
         vnode = keys["ctllint"][1]
@@ -324,15 +342,15 @@ class _Loader:
         if "title" in keys:
             self._guard(lambda: setattr(sch, "title", self.text(keys["title"][1], "title")))
         if "devices" in keys:
-            self._guard(lambda: self.read_devices(keys["devices"][1], sch))
+            self._guard(lambda: self.read_devices(keys.pop("devices")[1], sch))
         if "use" in keys:
-            self._guard(lambda: self.read_use(keys["use"][1], sch))
+            self._guard(lambda: self.read_use(keys.pop("use")[1], sch))
         if "supplies" in keys:
-            self._guard(lambda: self.read_supplies(keys["supplies"][1], sch))
+            self._guard(lambda: self.read_supplies(keys.pop("supplies")[1], sch))
         if "rungs" in keys:
-            self._guard(lambda: self.read_rungs(keys["rungs"][1], sch))
+            self._guard(lambda: self.read_rungs(keys.pop("rungs")[1], sch))
         if "expect" in keys:
-            self._guard(lambda: self.read_expect(keys["expect"][1], sch))
+            self._guard(lambda: self.read_expect(keys.pop("expect")[1], sch))
         if not self.errors:
             self.check_device_references(sch)
 
@@ -346,7 +364,7 @@ class _Loader:
     def read_devices(self, node: Node, sch: Schematic) -> None:
         if isinstance(node, ScalarNode) and scalar_value(node) is None:
             return
-        for tag, knode, vnode in self.mapping(node, "devices"):
+        for tag, knode, vnode in _consume(self.mapping(node, "devices"), node):
             if not TAG_RE.match(tag):
                 self.error(knode, f"device tag '{tag}' holds a dot or a space")
                 continue
@@ -643,7 +661,7 @@ class _Loader:
             return
         numbers: dict[int, Location] = {}
         counter = 0
-        for i, rnode in enumerate(self.sequence(node, "rungs")):
+        for i, rnode in enumerate(_consume(self.sequence(node, "rungs"), node)):
             try:
                 entries = self.mapping(rnode, f"rung {i + 1}")
             except _Stop:
@@ -714,7 +732,9 @@ class _Loader:
                     m = REF_RE.match(value)
                     if not m:
                         self.fail(item, f"'{value}' is not an element reference (TAG or TAG.PART)")
-                    refs.append((m.group("tag"), m.group("part"), value, item))
+                    tag, part = m.group("tag", "part")
+                    share = self._texts.setdefault
+                    refs.append((share(tag, tag), part and share(part, part), value, item))
             except _Stop:
                 ok = False
         if not ok:
@@ -829,6 +849,21 @@ class _Loader:
                 role = K.CONTACT
             el.role = role or ""
             el.inductive = bool(role == K.LOAD and kind.inductive)
+
+
+def _consume(items: list, node: Node) -> Iterator:
+    """Yield ``items`` (read from ``node``) in order, each let go before it is yielded.
+
+    ``node`` gives up its children first, so once the reader is done with an
+    item nothing holds its nodes any longer and they are freed while the rest
+    are read. A node an alias may name elsewhere keeps its children: it is
+    read again there.
+    """
+    if not node.anchored:
+        node.value.clear()
+    items.reverse()
+    while items:
+        yield items.pop()
 
 
 def _display_path(base: str, rel: str) -> str:

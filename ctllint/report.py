@@ -10,7 +10,6 @@ import json
 import os
 import sys
 from typing import Iterable
-from xml.sax.saxutils import escape, quoteattr
 
 from . import __version__
 from .api import OutputFormat, Rule
@@ -124,6 +123,10 @@ def render_sarif(diagnostics: list[Diagnostic], files: list[str], rules: dict[st
 
 
 def render_junit(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule]) -> str:
+    # Imported here: xml.sax.saxutils pulls in urllib, http and ssl, a cost
+    # every start-up would pay for a format few runs ask for.
+    from xml.sax.saxutils import escape, quoteattr
+
     by_file: dict[str, list[Diagnostic]] = {f: [] for f in files}
     for d in diagnostics:
         by_file.setdefault(d.path, []).append(d)

@@ -10,12 +10,10 @@ from __future__ import annotations
 
 import hashlib
 import json
-import multiprocessing
 import os
 import stat
 import sys
 import tempfile
-from concurrent.futures import ProcessPoolExecutor
 from dataclasses import asdict, dataclass, field
 
 from . import __version__
@@ -214,7 +212,14 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     cached = len(results)
 
     jobs = jobs or os.cpu_count() or 1
-    if jobs > 1 and len(todo) > 1 and "fork" in multiprocessing.get_all_start_methods():
+    parallel = jobs > 1 and len(todo) > 1
+    if parallel:
+        # Imported only for a parallel run: a one-file check need not pay for them at start-up.
+        import multiprocessing
+        from concurrent.futures import ProcessPoolExecutor
+
+        parallel = "fork" in multiprocessing.get_all_start_methods()
+    if parallel:
         context = multiprocessing.get_context("fork")
         with ProcessPoolExecutor(max_workers=min(jobs, len(todo)), mp_context=context, initializer=_worker_init, initargs=(checker,)) as pool:
             chunk = max(1, len(todo) // (jobs * 4))

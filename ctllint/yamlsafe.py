@@ -53,23 +53,26 @@ _NAN = re.compile(r"^\.(?:nan|NaN|NAN)$")
 _BOOL = {"true": True, "True": True, "TRUE": True, "false": False, "False": False, "FALSE": False}
 _NULL = {"", "~", "null", "Null", "NULL"}
 _NUMERIC_START = set("0123456789+-.")
+_SHARED_TEXT = 32  # scalars up to this length are shared between equal occurrences (see compose)
 
 
 class Node:
-    __slots__ = ("line", "column", "tag", "size")
+    __slots__ = ("line", "column", "tag")
 
     def __init__(self, line: int, column: int, tag: str | None):
         self.line = line
         self.column = column
         self.tag = tag
-        self.size = 1  # values below it once aliases are expanded
 
 
 class ScalarNode(Node):
     __slots__ = ("value", "plain")
+    size = 1  # values it stands for; a class constant, so a scalar carries no slot for it
 
     def __init__(self, value: str, line: int, column: int, tag: str | None, plain: bool):
-        super().__init__(line, column, tag)
+        self.line = line
+        self.column = column
+        self.tag = tag
         self.value = value
         self.plain = plain
 
@@ -78,19 +81,23 @@ class ScalarNode(Node):
 
 
 class SequenceNode(Node):
-    __slots__ = ("value",)
+    __slots__ = ("value", "size", "anchored")
 
     def __init__(self, line: int, column: int, tag: str | None):
         super().__init__(line, column, tag)
         self.value: list[Node] = []
+        self.size = 1  # values below it once aliases are expanded
+        self.anchored = False  # an alias may name it, so it can have more than one parent
 
 
 class MappingNode(Node):
-    __slots__ = ("value",)
+    __slots__ = ("value", "size", "anchored")
 
     def __init__(self, line: int, column: int, tag: str | None):
         super().__init__(line, column, tag)
         self.value: list[tuple[Node, Node]] = []
+        self.size = 1  # values below it once aliases are expanded
+        self.anchored = False  # an alias may name it, so it can have more than one parent
 
 
 class YamlProblem(Exception):
@@ -164,6 +171,12 @@ def compose(text: str, limits: Limits) -> Node | None:
             parent.value.append((key, node))
             pending[-1] = None
 
+    # Nodes on one line share one int for it, and equal short texts share one
+    # string: most of a large file's scalars are short and repeated, and every
+    # Location and model field built from them keeps them alive.
+    shared: dict[str, str] = {}
+    mark_line, line = -1, 0  # the parser's 0-based line of the last node, and our 1-based int for it
+
     next_event = _event_source(text)
     ScalarEvent, MappingStartEvent, SequenceStartEvent = ev.ScalarEvent, ev.MappingStartEvent, ev.SequenceStartEvent
     MappingEndEvent, SequenceEndEvent, AliasEvent, StreamEndEvent = ev.MappingEndEvent, ev.SequenceEndEvent, ev.AliasEvent, ev.StreamEndEvent
@@ -176,7 +189,14 @@ def compose(text: str, limits: Limits) -> Node | None:
                 tag = event.tag
                 if tag is not None and tag not in _SCALAR_TAGS:
                     raise problem(event, _tag_message(tag))
-                node = ScalarNode(event.value, mark.line + 1, mark.column + 1, tag, bool(event.implicit[0]) and tag is None)
+                value = event.value
+                if len(value) <= _SHARED_TEXT:
+                    # Tags, wire names, keys and units repeat throughout a file:
+                    # one string each, shared by the nodes and the model built on them.
+                    value = shared.setdefault(value, value)
+                if mark.line != mark_line:
+                    mark_line, line = mark.line, mark.line + 1
+                node = ScalarNode(value, line, mark.column + 1, tag, bool(event.implicit[0]) and tag is None)
                 if event.anchor:
                     anchors[event.anchor] = node
                 attach(node)
@@ -188,9 +208,12 @@ def compose(text: str, limits: Limits) -> Node | None:
                     raise problem(event, _tag_message(tag))
                 if len(stack) + 1 > limits.max_depth:
                     raise problem(event, f"nesting deeper than {limits.max_depth} levels; limit max_depth")
-                node = (MappingNode if cls is MappingStartEvent else SequenceNode)(mark.line + 1, mark.column + 1, tag)
+                if mark.line != mark_line:
+                    mark_line, line = mark.line, mark.line + 1
+                node = (MappingNode if cls is MappingStartEvent else SequenceNode)(line, mark.column + 1, tag)
                 if event.anchor:
                     anchors[event.anchor] = node
+                    node.anchored = True
                 stack.append(node)
                 open_ids.add(id(node))
                 if cls is MappingStartEvent:

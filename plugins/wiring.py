@@ -516,6 +516,31 @@ def _tree_node(tree: nx.Graph, wire: str):
     return ("C", wire) if ("C", wire) in tree else ("W", wire)
 
 
+class _NonLoadGraph:
+    """The circuit's non-load, known elements as wire pairs, read once for every supply."""
+
+    def __init__(self, ctx: CheckContext):
+        self.wires: dict[str, None] = {}  # in the order a graph of the edges would hold them
+        self.pairs: dict[frozenset, tuple[str, str]] = {}
+        self.elements: dict[frozenset, list[Element]] = {}
+        for a, b, data in ctx.circuit.graph.edges(data=True):
+            el = data.get("element")
+            if el is None or el.role in (K.LOAD, "") or a == b:
+                continue
+            pair = frozenset((a, b))
+            self.elements.setdefault(pair, []).append(el)
+            self.pairs.setdefault(pair, (a, b))
+            self.wires.setdefault(a)
+            self.wires.setdefault(b)
+
+    def without(self, removed: set[str]) -> nx.Graph:
+        """The graph of the edges with the wires ``removed`` taken out (built directly, not copied)."""
+        graph = nx.Graph()
+        graph.add_nodes_from(w for w in self.wires if w not in removed)
+        graph.add_edges_from((a, b) for a, b in self.pairs.values() if a not in removed and b not in removed)
+        return graph
+
+
 class _SupplySides:
     """For one grounded supply: which elements lie between a load and the common rail.
 
@@ -526,22 +551,11 @@ class _SupplySides:
     worked out on its own.
     """
 
-    def __init__(self, ctx: CheckContext, supply: Supply):
+    def __init__(self, base: "_NonLoadGraph", supply: Supply, rails: set[str]):
         self.supply = supply
-        rails = _rails(ctx.schematic)
-        base = nx.Graph()
-        self.elements: dict[frozenset, list[Element]] = {}
-        for a, b, data in ctx.circuit.graph.edges(data=True):
-            el = data.get("element")
-            if el is None or el.role in (K.LOAD, "") or a == b:
-                continue
-            pair = frozenset((a, b))
-            self.elements.setdefault(pair, []).append(el)
-            base.add_edge(a, b)
-        self.common_graph = base.copy()
-        self.common_graph.remove_nodes_from([r for r in rails if r != supply.common])
-        self.hot_graph = base.copy()
-        self.hot_graph.remove_nodes_from([r for r in rails if r != supply.hot])
+        self.elements = base.elements
+        self.common_graph = base.without({r for r in rails if r != supply.common})
+        self.hot_graph = base.without({r for r in rails if r != supply.hot})
         self._common_component = _component_map(self.common_graph)
         self._hot_component = _component_map(self.hot_graph)
         self._tree = None
@@ -614,21 +628,30 @@ def _is_overload_contact(sch: Schematic, el: Element) -> bool:
 
 def check_grounded_side_switching(ctx: CheckContext) -> Iterator[Finding]:
     sch, circuit = ctx.schematic, ctx.circuit
-    sides: dict[str, _SupplySides] = {}
-    flagged: dict[int, tuple[Element, Supply, list[Element]]] = {}
-    for load in circuit.loads:
+    # Loads are taken supply by supply, so that only one supply's graphs are
+    # alive at a time (on a large panel they are the bulk of this rule's
+    # memory); each finding then lists its loads in circuit order again.
+    by_supply: dict[str, tuple[Supply, list[tuple[int, Element]]]] = {}
+    for position, load in enumerate(circuit.loads):
         supply = circuit.supply_of(load)
         if supply is None or not supply.grounded or not load.role:
             continue
-        if supply.name not in sides:
-            sides[supply.name] = _SupplySides(ctx, supply)
-        for el in sides[supply.name].common_side(load):
-            if el.role not in _SWITCHING_ROLES or _is_overload_contact(sch, el):
-                continue
-            entry = flagged.setdefault(el.index, (el, supply, []))
-            entry[2].append(load)
-    for index in sorted(flagged):
-        el, supply, loads = flagged[index]
+        by_supply.setdefault(supply.name, (supply, []))[1].append((position, load))
+    base = _NonLoadGraph(ctx) if by_supply else None
+    rails = _rails(sch)
+    found: dict[int, tuple[Element, list[tuple[int, Element, Supply]]]] = {}
+    for supply, loads in by_supply.values():
+        sides = _SupplySides(base, supply, rails)
+        for position, load in loads:
+            for el in sides.common_side(load):
+                if el.role not in _SWITCHING_ROLES or _is_overload_contact(sch, el):
+                    continue
+                found.setdefault(el.index, (el, []))[1].append((position, load, supply))
+        del sides
+    for index in sorted(found):
+        el, hits = found[index]
+        hits.sort(key=lambda hit: hit[0])
+        supply, loads = hits[0][2], [load for _, load, _ in hits]
         names = ", ".join(load.text for load in loads)
         if el.role == K.CONDUCTOR:
             dev = sch.devices.get(el.tag)

@@ -122,17 +122,25 @@ def main() -> None:
     t_j2 = best(ctllint("check", "--no-cache", "-j", "2", folder), max(1, repeats - 1), env=nocache)
     rows.append((f"parallel: {count} files x 50 circuits, 2 jobs / 1 job", f"{t_j2:.3f} s / {t_j1:.3f} s", f"{t_j2 / t_j1:.2f}", "<= 0.65"))
 
-    # Memory: peak resident set of a cold check of the big file, and the growth over a bare start-up.
-    probe = ("import resource, sys, runpy; sys.argv = ['ctllint'] + sys.argv[1:]; "
-             "from ctllint.cli import main; code = main(sys.argv[1:]); "
+    # Memory: the peak resident set of `ctllint check` (as the console script runs it, through
+    # ctllint._entry) on the 1,000-circuit file, less the same for the one-circuit file: what
+    # the larger file costs beyond interpreter, libraries, plugins and a trivial check.
+    probe = ("import resource, sys; sys.argv = ['ctllint'] + sys.argv[1:]; "
+             "from ctllint._entry import main; main(); "
              "print(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss)")
+
     def peak(path: str) -> int:
-        out = subprocess.run([PY, "-c", probe, "check", "--no-cache", "-j", "1", "--format", "json", "-o", os.devnull, path],
-                             capture_output=True, text=True, env=nocache)
-        return int(out.stdout.strip().splitlines()[-1]) * 1024
+        """Peak RSS in bytes (ru_maxrss is in KiB on Linux) of one check, best of the repeats."""
+        values = []
+        for _ in range(repeats):
+            out = subprocess.run([PY, "-c", probe, "check", "--no-cache", "-j", "1", "--format", "json", "-o", os.devnull, path],
+                                 capture_output=True, text=True, env=nocache)
+            values.append(int(out.stdout.strip().splitlines()[-1]) * 1024)
+        return min(values)
+
     base, full = peak(one), peak(big)
-    rows.append(("memory: peak RSS growth over start-up / file size", f"{(full - base) / 1e6:.1f} MB / {size / 1e6:.2f} MB", f"{(full - base) / size:.1f}", "<= 20"))
-    rows.append(("memory: whole-process peak RSS (for reference)", f"{full / 1e6:.1f} MB", "", ""))
+    rows.append(("memory: peak RSS 1,000 circuits - 1 circuit / file size", f"{(full - base) / 1e6:.1f} MB / {size / 1e6:.2f} MB", f"{(full - base) / size:.1f}", "<= 20"))
+    rows.append(("memory: whole-process peak RSS, 1,000 / 1 circuit (for reference)", f"{full / 1e6:.1f} MB / {base / 1e6:.1f} MB", "", ""))
 
     widths = [max(len(r[i]) for r in rows + [("goal", "measured", "ratio", "target")]) for i in range(4)]
     header = ("goal", "measured", "ratio", "target")
