@@ -244,10 +244,15 @@ class Schematic:
     uses: list[str] = field(default_factory=list)  # resolved paths of used files
     device_file: bool = False  # holds only devices (a shared device file)
     text_lines: list[str] = field(default_factory=list)
+    _elements: tuple[int, list[Element]] | None = field(default=None, repr=False, compare=False)
 
     @property
     def elements(self) -> list[Element]:
-        return [e for r in self.rungs for p in r.paths for e in p.elements]
+        """Every element in file order (built once: rules ask for it many times)."""
+        count = len(self.rungs)
+        if self._elements is None or self._elements[0] != count:
+            self._elements = (count, [e for r in self.rungs for p in r.paths for e in p.elements])
+        return self._elements[1]
 
     def supply_of_rail(self, wire: str) -> Supply | None:
         for s in self.supplies.values():

@@ -11,6 +11,7 @@ finding. Nothing here guesses or interpolates a table value.
 """
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass
 from decimal import ROUND_HALF_UP, Decimal
@@ -146,6 +147,7 @@ def _table_hp(power_w: float, table_hps) -> Fraction | None:
     return best
 
 
+@functools.lru_cache(maxsize=4096)  # a panel repeats the same few motor sizes
 def motor_full_load_current(power_w: float, volts: float, phases: int) -> float | None:
     """Full-load current of a motor from NEC Table 430.250 or 430.248.
 
