@@ -820,6 +820,27 @@ class _Loader:
         return step
 
     # -- cross-references that are format errors ----------------------
+    def check_step_targets(self, sch: Schematic) -> None:
+        """An ``expect`` step naming a device of a kind the action cannot work is a format error.
+
+        press: a hand- or process-worked switch; release: the same or a
+        selector; set: a selector (one of its positions), a switch or a PLC
+        output (on/off); trip and reset: an overload, fuse or breaker; check: a
+        load (a coil, solenoid, light, horn or PLC input). An undeclared tag is
+        left to the unknown-device rule.
+        """
+        for scenario in sch.expect:
+            for step in scenario.steps:
+                for tag, value in step.targets.items():
+                    dev = sch.devices.get(tag)
+                    kind = self.kinds.get(dev.kind) if dev is not None else None
+                    if kind is None:
+                        continue
+                    where = step.target_locs.get(tag, step.loc)
+                    problem = _step_problem(step.action, kind, dev, value)
+                    if problem:
+                        self.error(where, f"{step.action} {tag}: {tag} is {_article(dev.kind)}; {problem}")
+
     def check_device_references(self, sch: Schematic) -> None:
         """Fill element roles; a field naming a device of the wrong kind is a format error."""
         for dev in sch.devices.values():
@@ -839,6 +860,7 @@ class _Loader:
                 other = sch.devices[sup.source]
                 if other.kind not in ("transformer", "power-supply"):
                     self.error(sup.at("source"), f"source of supply {sup.name} names {sup.source}, a {other.kind}; it must be a transformer or power-supply")
+        self.check_step_targets(sch)
         for el in sch.elements:
             dev = sch.devices.get(el.tag)
             if dev is None:
@@ -898,3 +920,32 @@ def _closest(word: str, options: tuple[str, ...]) -> str | None:
 
     found = difflib.get_close_matches(word, list(options), n=1, cutoff=0.75)
     return found[0] if found else None
+
+
+_TRIPPABLE = ("overload", "fuse", "breaker")
+
+
+def _step_problem(action: str, kind: DeviceKind, dev: Device, value: Any) -> str | None:
+    """Why ``action`` cannot work a device of ``kind`` (None when it can)."""
+    switch = kind.mechanical and not kind.positions
+    if action == "press":
+        return None if switch else "press works a pushbutton or another hand- or process-worked switch"
+    if action == "release":
+        return None if kind.mechanical else "release works a pushbutton, switch or selector"
+    if action in ("trip", "reset"):
+        return None if kind.name in _TRIPPABLE else f"{action} works an overload, fuse or breaker"
+    if action == "check":
+        readable = kind.coil or kind.bare in (K.LOAD, K.OUTPUT)  # loads, and what a PLC output is told
+        return None if readable else "check reads a load (a coil, solenoid, pilot light, horn or PLC input) or a PLC output"
+    if action == "set":
+        if kind.positions:
+            positions = [str(p) for p in (dev.get("positions") or [])]
+            return None if str(value) in positions else f"'{value}' is not one of its positions ({', '.join(positions)})"
+        if switch or kind.bare == K.OUTPUT:
+            return None if value in ("on", "off") else f"set a switch or PLC output to on or off, not '{value}'"
+        return "set works a selector, a switch or a PLC output"
+    return None
+
+
+def _article(word: str) -> str:
+    return ("an " if word[:1] in "aeiou" else "a ") + word

@@ -81,7 +81,7 @@ def test_integer_wire_names_are_their_decimal_text():
 
 def test_yaml_1_2_booleans_on_off_yes_no_are_strings():
     # YAML 1.2 core schema: only true/false are booleans (yaml.org spec 1.2, 10.3.2)
-    sch = load_text(GOOD.replace("positions: [off, hand, auto]", "positions: [off, on, yes]").replace("SS1.hand", "SS1.on"), "t.ctl.yaml").schematic
+    sch = load_text(GOOD.replace("positions: [off, hand, auto]", "positions: [off, on, yes]").replace("SS1.hand", "SS1.on").replace("{SS1: auto}", "{SS1: yes}"), "t.ctl.yaml").schematic
     assert sch.devices["SS1"].get("positions") == ["off", "on", "yes"]
 
 
@@ -107,6 +107,9 @@ def test_yaml_1_2_booleans_on_off_yes_no_are_strings():
     ("ctllint: 1\nsupplies: {}\ndevices:\n  M1: {kind: contactor, feeds: PB1}\n  PB1: {kind: pushbutton}\nrungs: []\n", (4, 32), "must be a motor or heater"),
     ("ctllint: 1\nsupplies: {}\ndevices: {}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - push: PB1\n", (8, 9), "unknown key 'push'"),
     ("ctllint: 1\nsupplies: {}\ndevices: {}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - check: {M1: yes}\n", (8, 21), "expected on or off"),
+    ("ctllint: 1\nsupplies: {}\ndevices:\n  M1: {kind: relay}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - press: M1\n", (9, 16), "press works a pushbutton"),
+    ("ctllint: 1\nsupplies: {}\ndevices:\n  SS1: {kind: selector, positions: [off, run]}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - set: {SS1: fast}\n", (9, 15), "not one of its positions"),
+    ("ctllint: 1\nsupplies: {}\ndevices:\n  PB1: {kind: pushbutton}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - trip: PB1\n", (9, 15), "trip works an overload"),
 ])
 def test_format_errors_are_located(text, where, words):
     found = errors(text)
