@@ -14,17 +14,28 @@ so each check stays linear in the size of the circuit per question asked.
 
 Choices where the catalogue leaves room:
 
+- ``stop-normally-closed`` (and the NO problem of ``emergency-stop``) leave
+  out an auxiliary NO contact that only signals "pressed": the device stops
+  through an NC contact used in the rungs, and the NO serves nothing but
+  pilot lights, horns and PLC inputs (an e-stop's status contact to the
+  PLC). A stop device used only through NO contacts, or whose NO serves a
+  coil or solenoid, is flagged as before.
 - ``stop-in-series`` and ``interlock`` look at coils (``X.coil``), not at
   lights or solenoids. The message of ``stop-in-series`` names the part of
   the bypassing path on the stop's side of the coil.
 - ``seal-in``: a NO contact of the coil's own device "bypasses" the start
   contact when the two lie on a common loop of non-load wiring (the same
   biconnected component once the loads are taken out) and the contact serves
-  the coil. The stop and overload contacts that must stay in series are the
-  ones in series with the coil while its own NO contacts are open (the
-  circuit as the start button sees it); so a seal wired around the stop as
-  well as the start fails, while two stop buttons wired in parallel are left
-  to ``stop-in-series``.
+  the coil. A NO contact of another coil the same start contact energizes
+  counts too (the main contactor of a star-delta starter holds the star,
+  delta and timer coils started with it), unless that coil is a timer's:
+  timed contacts do not hold (an on-delay NO is still open when the button
+  is released, an off-delay NO stays closed after stop and restarts). The
+  stop and overload contacts that must stay in series are the ones in series
+  with the coil while its own NO contacts are open (the circuit as the start
+  button sees it); so a seal wired around the stop as well as the start
+  fails, while two stop buttons wired in parallel are left to
+  ``stop-in-series``.
 - ``interlock`` treats the pair as symmetric: when M1F names M1R, both coils
   need the other's NC contact in series, each reported at its own coil.
 - ``auto-restart``: a spring-return selector is a momentary device (only its
@@ -41,8 +52,10 @@ Choices where the catalogue leaves room:
   not settle there is reported at the first coil that keeps switching, when
   no own-NC finding already covers it.
 - ``emergency-stop``: "its supply" is the supply of the loads its contacts
-  serve. A coil is governed when every energizing path passes a contact of
-  the emergency stop or a NO contact of a relay, timer, contactor or starter
+  serve, and any supply with a contactor or starter it governs through a
+  relay (a 24 VDC safety relay switching 120 VAC starters makes the 120 VAC
+  starters its own). A coil is governed when every energizing path passes a
+  contact of the emergency stop or a NO contact of a relay, timer, contactor or starter
   whose coil is governed (a master control relay, or a chain of them). The
   momentary, NO and governing problems of one device are given in one
   finding at its tag.
@@ -177,10 +190,29 @@ def _names(elements: Iterable[Element]) -> str:
 # stop-normally-closed
 
 
+SIGNAL_KINDS = ("pilot-light", "horn", "plc-input")
+
+
+def _signal_only(ctx: CheckContext, el: Element) -> bool:
+    """``el`` is an auxiliary NO of a stop device that only signals "pressed".
+
+    The device stops through an NC contact used in the rungs, and this NO
+    serves only pilot lights, horns and PLC inputs (an e-stop's auxiliary
+    contact telling the PLC, say): it starts or holds nothing, so a broken
+    wire on it cannot keep anything running.
+    """
+    if not any(e.part == "NC" for e in _contacts(ctx, el.tag)):
+        return False
+    loads = ctx.circuit.served_loads(el)
+    return bool(loads) and all(getattr(_device(ctx, x.tag), "kind", None) in SIGNAL_KINDS for x in loads)
+
+
 def check_stop_normally_closed(ctx: CheckContext) -> Iterator[Finding]:
     for el in ctx.schematic.elements:
         dev = _device(ctx, el.tag)
         if el.role != "contact" or el.part != "NO" or not _is_stop_device(dev):
+            continue
+        if _signal_only(ctx, el):
             continue
         what = "emergency stop" if dev.get("function") == "emergency-stop" else "stop button"
         yield Finding(
@@ -399,7 +431,14 @@ def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
     # The seal is a NO contact of the coil's own device or of another coil the
     # same start button energizes: in a star-delta starter or a starter with
     # its timer, the main contactor's seal-in holds every coil started with it.
-    started = [load.tag for load in circuit.served_loads(start) if load.part == "coil" and load.tag != coil.tag]
+    # Another device's timer does not count: its contacts are timed, so an
+    # on-delay NO has not closed when the button is released, and an
+    # off-delay NO stays closed after stop is pressed and restarts the coil.
+    started = [
+        load.tag
+        for load in circuit.served_loads(start)
+        if load.part == "coil" and load.tag != coil.tag and getattr(_device(ctx, load.tag), "kind", None) != "timer"
+    ]
     candidates = _contacts(ctx, coil.tag, "NO") + [m for tag in dict.fromkeys(started) for m in _contacts(ctx, tag, "NO")]
     seals = [m for m in candidates if blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)]
     if not seals:
@@ -488,17 +527,25 @@ def check_emergency_stop(ctx: CheckContext) -> Iterator[Finding]:
         if (dev.get("action") or "momentary") != "maintained":
             problems.append("it is momentary, not maintained (latching): releasing it must not restart anything, so use a latching device (action: maintained)")
         elements = circuit.elements_of(tag)
-        no = [e for e in elements if e.part == "NO"]
+        no = [e for e in elements if e.part == "NO" and not _signal_only(ctx, e)]
         if no:
             problems.append(f"it is used through its NO contact {_names(no)}: an emergency stop must open its circuit, so use NC contacts")
         supplies = []
         for el in elements:
+            if el.part == "NO" and _signal_only(ctx, el):
+                continue  # an auxiliary "pressed" signal, perhaps to a PLC on another supply
             for load in circuit.served_loads(el):
                 supply = circuit.supply_of(load)
                 if supply is not None and supply.name not in supplies:
                     supplies.append(supply.name)
         if supplies:
             governed = _governed(ctx, tag)
+            # A supply whose contactors it drops through a relay (a 24 VDC safety
+            # relay switching 120 VAC starters) is its supply too.
+            for coil in _coil_loads(ctx):
+                supply = circuit.supply_of(coil) if coil.index in governed else None
+                if supply is not None and supply.name not in supplies and _device(ctx, coil.tag).kind in CONTACTOR_KINDS:
+                    supplies.append(supply.name)
             missed = []
             for coil in _coil_loads(ctx):
                 coil_dev = _device(ctx, coil.tag)
@@ -662,7 +709,8 @@ RULES = [
             "A stop button must stop the machine by opening the circuit, so that a broken wire, a loose "
             "terminal or a burnt contact stops it too. Wired through its NO contact, the same faults make "
             "the button do nothing when it is pressed. The rule flags every NO contact of a pushbutton whose "
-            "function is stop or emergency-stop."
+            "function is stop or emergency-stop, except an auxiliary NO that only signals the button is pressed "
+            "(it serves only pilot lights, horns or PLC inputs, and the button stops through an NC contact)."
         ),
         source="NFPA 79 9.2.5.3 / IEC 60204-1 9.4.1 (stop functions by de-energization); common practice",
         check=check_stop_normally_closed,
@@ -712,7 +760,9 @@ RULES = [
             "coil a momentary start button's NO contact serves, unless the rung sets jog: true. Coils "
             "started together by the same button (the star, delta and timer coils of a star-delta "
             "starter, a starter and its run timer) may share one seal-in: a NO contact of any coil that "
-            "button energizes counts, as long as it bypasses only the start contact."
+            "button energizes counts, as long as it bypasses only the start contact; a timer's contact "
+            "does not, since timed contacts do not hold the coil (an on-delay NO is still open when the "
+            "button is released, an off-delay NO stays closed after stop and restarts the coil)."
         ),
         source="common practice (three-wire control, low-voltage protection); NFPA 79 7.5",
         check=check_seal_in,
@@ -760,7 +810,10 @@ RULES = [
             "An emergency stop must latch when pressed (releasing it must not restart anything), must open "
             "its circuit through NC contacts (so a broken wire also stops), and must drop every contactor and "
             "starter on its control supply, either directly in series with each coil or through a master "
-            "control relay whose coil it drops and whose NO contacts are in series with the others."
+            "control relay whose coil it drops and whose NO contacts are in series with the others. Where it "
+            "drops starters on another supply through a relay (a 24 VDC safety relay switching 120 VAC "
+            "starters), that supply's contactors and starters must all be governed too. An auxiliary NO that "
+            "only signals the button is pressed (to a PLC input or a light) is not an NO use."
         ),
         source="NFPA 79 9.2.5.4 / IEC 60204-1 10.7 (emergency stop devices), ISO 13850",
         check=check_emergency_stop,
