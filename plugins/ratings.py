@@ -467,7 +467,7 @@ def check_overload_setting(ctx) -> Iterator[Finding]:
             fla, source = motor_full_load(motor)
             if fla is None:
                 yield Finding(
-                    at=motor.at("power"),
+                    at=overload.at("setting"),  # RULES.md: overload-setting findings are at the setting
                     message=(
                         f"overload {overload.tag} (set {_amps(setting.value)}) protects motor {motor.tag}, whose "
                         f"full-load current cannot be told: {source}; the setting cannot be checked against "
@@ -671,7 +671,50 @@ def check_vacuum_contactor(ctx) -> Iterator[Finding]:
 # ---------------------------------------------------------------------------
 
 
+class _DirectLinks:
+    """Which wires join without a load, a relay contact or a rail between them.
+
+    RULES.md: an output drives a load *directly* when no relay contact lies
+    between them. Between the output and the load on an energizing path
+    there is no other load and no rail (a simple path meets each rail only
+    at its end), so the output reaches the load directly when one of its
+    non-rail terminals joins one of the load's non-rail terminals through
+    elements that are none of: loads, contacts of a relay, timer, contactor
+    or starter, elements touching a rail, and PLC outputs (the output
+    itself must not count as its own link). One union-find over the
+    circuit, built once: linear in its size.
+    """
+
+    def __init__(self, ctx):
+        self.rails = ctx.circuit.rails
+        self.parent: dict[str, str] = {}
+        for el in ctx.schematic.elements:
+            if el.role in ("", None, "load", "output") or el.left in self.rails or el.right in self.rails:
+                continue
+            device = ctx.devices.get(el.tag)
+            if el.role == "contact" and device is not None and device.kind in _COIL_KINDS:
+                continue
+            ra, rb = self.find(el.left), self.find(el.right)
+            if ra != rb:
+                self.parent[rb] = ra
+
+    def find(self, wire: str) -> str:
+        parent = self.parent
+        parent.setdefault(wire, wire)
+        root = wire
+        while parent[root] != root:
+            root = parent[root]
+        while parent[wire] != root:
+            parent[wire], wire = root, parent[wire]
+        return root
+
+    def direct(self, output: Element, load: Element) -> bool:
+        ends = {self.find(w) for w in (load.left, load.right) if w not in self.rails}
+        return any(self.find(w) in ends for w in (output.left, output.right) if w not in self.rails)
+
+
 def check_inductive_on_electronic_output(ctx) -> Iterator[Finding]:
+    links: _DirectLinks | None = None
     for element in ctx.schematic.elements:
         device = ctx.devices.get(element.tag)
         if element.role != "output" or device is None or device.kind != "plc-output":
@@ -683,6 +726,10 @@ def check_inductive_on_electronic_output(ctx) -> Iterator[Finding]:
             load_device = ctx.devices.get(load.tag)
             if not load.inductive or load_device is None or load_device.get("suppressed") is True:
                 continue
+            if links is None:
+                links = _DirectLinks(ctx)
+            if not links.direct(element, load):
+                continue  # a relay contact lies between the output and this load (RULES.md)
             if load.text not in loads:
                 loads.append(load.text)
         if loads:
