@@ -854,12 +854,19 @@ class _Loader:
                 for t in tags:
                     other = sch.devices.get(t)
                     if other is not None and other.kind not in spec.tag_kinds:
-                        self.error(dev.at(name), f"{name} of {dev.tag} names {t}, a {other.kind}; it must be a {' or '.join(spec.tag_kinds)}")
+                        self.error(dev.at(name), f"{name} of {dev.tag} names {t}, {_article(other.kind)}; it must be {' or '.join(_article(k) for k in spec.tag_kinds)}")
         for sup in sch.supplies.values():
             if sup.source and sup.source in sch.devices:
                 other = sch.devices[sup.source]
                 if other.kind not in ("transformer", "power-supply"):
-                    self.error(sup.at("source"), f"source of supply {sup.name} names {sup.source}, a {other.kind}; it must be a transformer or power-supply")
+                    self.error(sup.at("source"), f"source of supply {sup.name} names {sup.source}, {_article(other.kind)}; it must be a transformer or power-supply")
+        for dev in sch.devices.values():
+            if dev.kind != "transformer" or dev.origin != self.path:
+                continue
+            for i, t in enumerate(dev.get("fuses") or []):
+                fuse = sch.devices.get(t)
+                if fuse is not None and fuse.kind in ("fuse", "breaker") and fuse.get("side") is None:
+                    self.error(fuse.loc, f"{fuse.kind} {t} is listed in the fuses of transformer {dev.tag} and needs 'side: primary' or 'side: secondary'")
         self.check_step_targets(sch)
         for el in sch.elements:
             dev = sch.devices.get(el.tag)

@@ -396,6 +396,10 @@ NEMA_SIZE_CURRENT: dict[str, float] = {
     "4": 135.0,
     "5": 270.0,
     "6": 540.0,
+    # Sizes 7 to 9: NEMA ICS 2 (from memory; not listed in RULES.md).
+    "7": 810.0,
+    "8": 1215.0,
+    "9": 2250.0,
 }
 
 

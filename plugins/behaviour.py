@@ -60,8 +60,8 @@ def _events(ctx, scenario: Scenario) -> list["ScenarioEvent"]:
 def check_expectation(ctx) -> Iterator[Finding]:
     for scenario in ctx.schematic.expect:
         for event in _events(ctx, scenario):
-            if event.kind != "check":
-                continue
+            if event.kind != "check" or event.tag not in ctx.devices:
+                continue  # an undeclared tag is unknown-device's finding, not a failed expectation
             where = f"after step {event.step_index + 1}" if event.step_index is not None else "at rest"
             yield Finding(
                 at=event.location,

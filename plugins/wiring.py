@@ -204,27 +204,61 @@ def check_unknown_part(ctx: CheckContext) -> Iterator[Finding]:
 # ---------------------------------------------------------------------------
 
 
+def _provides(count) -> str:
+    given = [f"{n} {what}" for n, what in ((count.no, "NO"), (count.nc, "NC")) if n]
+    if count.changeover:
+        given.append(f"{count.changeover} changeover (each one NO or one NC)")
+    return " and ".join(given) or "no contacts"
+
+
+def _excess(count, no_used: int, nc_used: int) -> int:
+    """Uses beyond what ``count`` provides, changeover poles taking up either kind."""
+    return max(0, max(0, no_used - count.no) + max(0, nc_used - count.nc) - count.changeover)
+
+
 def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
+    """More NO or NC uses than ``contacts`` gives; for a selector, more position uses.
+
+    A selector is drawn by its positions (``SS1.hand``), and a cam can make
+    either an NO or an NC block close in a given position, so each position
+    use takes one contact block of any type: a selector is reported when it
+    has more position uses than contact blocks in all.
+    """
     sch = ctx.schematic
     used: dict[str, list[int]] = {}
     for el in sch.elements:
-        if el.role != K.CONTACT or el.part not in ("NO", "NC"):
+        if el.role != K.CONTACT:
             continue
         dev = sch.devices.get(el.tag)
         count = dev.get("contacts") if dev is not None else None
         if count is None or not hasattr(count, "allows"):
             continue
-        tally = used.setdefault(el.tag, [0, 0])
+        kind = _kind(dev, ctx.kinds)
+        if kind is not None and kind.positions and el.part in (dev.get("positions") or ()):
+            tally = used.setdefault(el.tag, [0, 0, 0])
+            tally[2] += 1
+            blocks = count.no + count.nc + count.changeover
+            if tally[2] > blocks:
+                yield Finding(
+                    el.loc,
+                    f"{el.text} in {_rung(sch, el)} is position contact number {tally[2]} drawn for selector {el.tag}, "
+                    f"which provides {_provides(count)} (line {dev.at('contacts').line}), {blocks} contact "
+                    f"block{'s' if blocks != 1 else ''} in all; add a contact block, correct `contacts`, or use a relay",
+                    _subject(sch, el),
+                )
+            continue
+        if el.part not in ("NO", "NC"):
+            continue
+        tally = used.setdefault(el.tag, [0, 0, 0])
+        before = _excess(count, tally[0], tally[1])
         tally[0 if el.part == "NO" else 1] += 1
-        if not count.allows(tally[0], tally[1]):
-            given = [f"{n} {what}" for n, what in ((count.no, "NO"), (count.nc, "NC")) if n]
-            if count.changeover:
-                given.append(f"{count.changeover} changeover (each one NO or one NC)")
-            provides = " and ".join(given) or "no contacts"
+        # Only the use that goes beyond what is left is reported: once the
+        # NCs are exhausted, a later NO within the NO count is no fault.
+        if _excess(count, tally[0], tally[1]) > before:
             yield Finding(
                 el.loc,
                 f"{el.text} in {_rung(sch, el)} is {el.part} contact number {tally[0 if el.part == 'NO' else 1]} drawn for {el.tag}, "
-                f"which provides {provides} (line {dev.at('contacts').line}) and {tally[0]} NO + {tally[1]} NC are drawn so far; "
+                f"which provides {_provides(count)} (line {dev.at('contacts').line}) and {tally[0]} NO + {tally[1]} NC are drawn so far; "
                 "add an auxiliary contact block, correct `contacts`, or use a relay",
                 _subject(sch, el),
             )
@@ -243,6 +277,13 @@ def _has_coil(dev: Device) -> bool:
 def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
     sch = ctx.schematic
     coils = {el.tag for el in sch.elements if el.part == "coil" and el.role == K.LOAD}
+    # A coil drawn as a part the kind lacks (the bare tag M1, or M1.Coil) is
+    # reported once, by unknown-part; its contacts are not reported again.
+    coils |= {
+        el.tag
+        for el in sch.elements
+        if not el.role and el.tag in sch.devices and (el.part is None or "coil" in el.part.lower())
+    }
     reported: set[str] = set()
     for el in sch.elements:
         if el.role != K.CONTACT or el.tag in coils or el.tag in reported:
@@ -325,6 +366,8 @@ def check_open_circuit(ctx: CheckContext) -> Iterator[Finding]:
             f"one side is on rail {wire}" if wire in rails and rails == [wire] else f"wire {wire} reaches " + (" and ".join(rails) if rails else "no rail")
             for wire, rails in zip((load.left, load.right), reached)
         ]
+        if load.left == load.right:
+            sides = [f"both its ends are on {'rail' if load.left in _rails(sch) else 'wire'} {load.left}"]
         supply = circuit.supply_of(load) or (sch.supplies.get(next(iter(supplies))) if supplies else None)
         want = f"hot {supply.hot} on one side and common {supply.common} on the other" if supply else "a supply's hot rail on one side and its common rail on the other"
         yield Finding(
@@ -381,14 +424,20 @@ def check_loads_in_series(ctx: CheckContext) -> Iterator[Finding]:
 
 def check_short_circuit(ctx: CheckContext) -> Iterator[Finding]:
     sch = ctx.schematic
+    # One finding per short: the circuit gives one path per element leaving
+    # hot, so a short reached from hot through several parallel elements (the
+    # hand and auto branches of a selector, two start buttons) comes back
+    # once per branch, all ending at the same element on common; and several
+    # common-side elements in parallel come back from the same first element.
+    # A path is reported only when both its ends are new.
     reported: set[int] = set()
     for supply, path in ctx.circuit.short_circuits():
         if not path or any(not el.role for el in path):
             continue
-        first = path[0]
-        if first.index in reported:
+        first, last = path[0], path[-1]
+        if first.index in reported or last.index in reported:
             continue
-        reported.add(first.index)
+        reported.update((first.index, last.index))
         closing = [el.text for el in path if el.role in (K.CONTACT, K.OUTPUT)]
         when = f"when {_and(closing)} {'close' if len(closing) > 1 else 'closes'}" if closing else "as soon as power is on"
         yield Finding(
@@ -680,29 +729,64 @@ def check_grounded_side_switching(ctx: CheckContext) -> Iterator[Finding]:
 
 
 def check_dangling_wire(ctx: CheckContext) -> Iterator[Finding]:
+    """Wires with one element on them, and elements whose two ends are one wire.
+
+    A wire's connections are the elements on it, each counted once: an
+    element with both ends on a wire found nowhere else ([7, CR1.NO, 7]) is
+    that wire's only connection. An element with both ends on the same wire
+    that has other connections ([3, CR1.NO, 3]) is joined across nothing, so
+    it never changes the circuit: almost always one mistyped wire number (3
+    for 2), the mistake this rule exists for; it is reported here, at the
+    element. A load so drawn is left to ``open-circuit``, which already says
+    it can never be energized; unknown elements to ``unknown-device`` and
+    ``unknown-part``.
+    """
     sch, circuit = ctx.schematic, ctx.circuit
     rails = _rails(sch) | set(circuit.rails)
-    first_at: dict[str, Element] = {}
+    on_wire: dict[str, list[Element]] = {}
     for e in sch.elements:
-        first_at.setdefault(e.left, e)
-        first_at.setdefault(e.right, e)
+        for wire in (e.left,) if e.left == e.right else (e.left, e.right):
+            on_wire.setdefault(wire, []).append(e)
+    reported: set[int] = set()
     for wire in _wires_in_order(sch):
-        if wire in rails or circuit.wire_degree(wire) != 1 or wire not in first_at:
+        found = on_wire.get(wire, ())
+        if wire in rails or len(found) != 1:
             continue
-        el = first_at[wire]
+        el = found[0]
+        reported.add(el.index)
+        if el.left == el.right:
+            why = f"both ends of {el.text} are on it, so {el.text} is connected to nothing else"
+        else:
+            why = f"{el.text} is connected on one side only"
         yield Finding(
             el.loc,
-            f"wire {wire} ends at {el.text} in {_rung(sch, el)} and goes nowhere else: {el.text} is connected on one side only; "
+            f"wire {wire} ends at {el.text} in {_rung(sch, el)} and goes nowhere else: {why}; "
             "correct the wire number or complete the path",
             f"wire {wire}",
+        )
+    for el in sch.elements:
+        if el.left != el.right or el.index in reported or not el.role or el.role == K.LOAD:
+            continue
+        where = f"{'rail' if el.left in rails else 'wire'} {el.left}"
+        yield Finding(
+            el.loc,
+            f"both ends of {el.text} in {_rung(sch, el)} are on {where}: it joins a wire to itself, so whether it is open "
+            "or closed changes nothing; one of its wire numbers is probably mistyped",
+            f"wire {el.left}",
         )
 
 
 def _used_tags(sch: Schematic, kinds: K.KindRegistry) -> set[str]:
     used = {el.tag for el in sch.elements}
+    drawn = set(used)
     for dev in sch.devices.values():
-        for _, tags in _tag_fields(dev, kinds):
+        for name, tags in _tag_fields(dev, kinds):
             used.update(tags)
+            # A transformer whose own fuses are drawn in the rungs is in the
+            # drawing (its secondary fuse feeds them) even where no supply
+            # names it as `source`.
+            if name == "fuses" and any(t in drawn for t in tags):
+                used.add(dev.tag)
     used.update(s.source for s in sch.supplies.values() if s.source)
     for scenario in sch.expect:
         for step in scenario.steps:
@@ -767,7 +851,9 @@ RULES = [
             "A device has a fixed number of contacts. Drawing more NO or NC uses than it provides gives a "
             "panel that cannot be wired as drawn; the missing contact is usually found at commissioning. "
             "Changeover (double-throw) poles give one NO or one NC use each. Devices without `contacts` are "
-            "not checked."
+            "not checked. A selector is drawn by its positions, and a cam can close an NO or an NC block in "
+            "any position, so each position use takes one block of either type: a selector is reported when "
+            "its position uses outnumber its contact blocks."
         ),
         source="common practice",
         check=check_contact_count,
@@ -839,7 +925,9 @@ RULES = [
         doc=(
             "A path of contacts, outputs or fuses from hot to common with no load shorts the supply when "
             "its contacts close, tripping the protection or welding the contacts. The path counts if it "
-            "exists on paper, for any combination of contact states, since the drawing is what gets wired."
+            "exists on paper, for any combination of contact states, since the drawing is what gets wired. "
+            "One short reached from hot through several parallel branches (hand and auto, two start "
+            "buttons) is reported once, at the first element of its first path."
         ),
         source="common practice",
         check=check_short_circuit,
@@ -899,7 +987,10 @@ RULES = [
         summary="a wire, not a rail, has only one connection",
         doc=(
             "A wire number that appears at one element only goes nowhere: usually a mistyped wire number "
-            "(3 for 8) that silently opens a branch, or a half-drawn path."
+            "(3 for 8) that silently opens a branch, or a half-drawn path. An element with both ends on the "
+            "same wire ([3, CR1.NO, 3]) is the same mistake seen from the other side: it joins a wire to "
+            "itself, so open or closed it changes nothing; it is reported here too, at the element (a load "
+            "so drawn is open-circuit instead)."
         ),
         source="common practice",
         check=check_dangling_wire,
@@ -912,7 +1003,9 @@ RULES = [
         summary="a device declared in this file is used nowhere",
         doc=(
             "A device that no rung, supply, other device or expect step names is a leftover of an edit or a "
-            "part of the drawing that was never finished. Devices from used shared files are not reported."
+            "part of the drawing that was never finished. Devices from used shared files are not reported. "
+            "A transformer whose fuses are drawn in the rungs counts as used even where no supply names it "
+            "as `source`: its secondary fuse is what feeds them."
         ),
         source="common practice",
         check=check_unused_device,

@@ -104,7 +104,7 @@ def test_yaml_1_2_booleans_on_off_yes_no_are_strings():
     ("ctllint: 1\nsupplies:\n  a: {hot: L1, common: X2, voltage: 120 VAC}\n  b: {hot: L1, common: X3, voltage: 24 VDC}\ndevices: {}\nrungs: []\n", (4, 12), "already a rail"),
     ("ctllint: 1\nsupplies: {}\ndevices:\n  C1: {kind: relay, rating: A700}\nrungs: []\n", (4, 29), "pilot-duty"),
     ("ctllint: 1\nsupplies: {}\ndevices:\n  M1: {kind: contactor, power_rating: {size: 12}}\nrungs: []\n", (4, 46), "NEMA size"),
-    ("ctllint: 1\nsupplies: {}\ndevices:\n  M1: {kind: contactor, feeds: PB1}\n  PB1: {kind: pushbutton}\nrungs: []\n", (4, 32), "must be a motor or heater"),
+    ("ctllint: 1\nsupplies: {}\ndevices:\n  M1: {kind: contactor, feeds: PB1}\n  PB1: {kind: pushbutton}\nrungs: []\n", (4, 32), "must be a motor or a heater"),
     ("ctllint: 1\nsupplies: {}\ndevices: {}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - push: PB1\n", (8, 9), "unknown key 'push'"),
     ("ctllint: 1\nsupplies: {}\ndevices: {}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - check: {M1: yes}\n", (8, 21), "expected on or off"),
     ("ctllint: 1\nsupplies: {}\ndevices:\n  M1: {kind: relay}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - press: M1\n", (9, 16), "press works a pushbutton"),

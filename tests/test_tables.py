@@ -455,11 +455,13 @@ def test_category_limits(category, ie, make, brk):
 
 def test_nema_sizes():
     # RULES.md "Rating meanings", NEMA ICS 2 (from memory).
-    assert NEMA_SIZE_CURRENT == {"00": 9, "0": 18, "1": 27, "2": 45, "3": 90,
-                                 "4": 135, "5": 270, "6": 540}
+    assert {k: v for k, v in NEMA_SIZE_CURRENT.items() if k not in ("7", "8", "9")} == {
+        "00": 9, "0": 18, "1": 27, "2": 45, "3": 90, "4": 135, "5": 270, "6": 540}
+    # Sizes 7-9, NEMA ICS 2 (from memory): 810, 1215, 2250 A.
+    assert (NEMA_SIZE_CURRENT["7"], NEMA_SIZE_CURRENT["8"], NEMA_SIZE_CURRENT["9"]) == (810, 1215, 2250)
     assert tables.nema_size_current(0) == 18
     assert tables.nema_size_current("00") == 9
-    assert tables.nema_size_current(7) is None
+    assert tables.nema_size_current(10) is None
 
 
 def test_standard_ratings():
