@@ -54,6 +54,7 @@ from typing import TYPE_CHECKING, Any
 
 from .circuit import _gc_paused, path_text
 from .model import Element, Location, Scenario, Step
+from .wiresets import WireSets
 
 if TYPE_CHECKING:  # pragma: no cover
     from .circuit import Circuit
@@ -233,23 +234,9 @@ class Simulator:
         return active if part == "NO" else not active if part == "NC" else False
 
     def _union(self) -> tuple[dict[str, str], Any]:
-        parent: dict[str, str] = {}
-
-        def find(w: str) -> str:
-            parent.setdefault(w, w)
-            root = w
-            while parent[root] != root:
-                root = parent[root]
-            while parent[w] != root:
-                parent[w], w = root, parent[w]
-            return root
-
-        for el in self._switchable:
-            if self._closed(el):
-                ra, rb = find(el.left), find(el.right)
-                if ra != rb:
-                    parent[rb] = ra
-        return parent, find
+        """Wires joined through closed non-load elements in the present state."""
+        sets = WireSets((el.left, el.right) for el in self._switchable if self._closed(el))
+        return sets.parent, sets.find
 
     def _evaluate(self) -> None:
         """Which loads are energized in the present contact state."""

@@ -41,6 +41,7 @@ from ctllint import hookimpl
 from ctllint.api import Example, Finding, Rule
 from ctllint.model import ContactRating, Device, Element, Quantity, Severity, Supply
 from ctllint.quantities import format_si
+from ctllint.wiresets import WireSets
 from ctllint.tables import (
     OVERLOAD_FRACTION_LOW,
     VACUUM_THRESHOLD_A,
@@ -687,26 +688,15 @@ class _DirectLinks:
 
     def __init__(self, ctx):
         self.rails = ctx.circuit.rails
-        self.parent: dict[str, str] = {}
+        self.sets = WireSets()
         for el in ctx.schematic.elements:
             if el.role in ("", None, "load", "output") or el.left in self.rails or el.right in self.rails:
                 continue
             device = ctx.devices.get(el.tag)
             if el.role == "contact" and device is not None and device.kind in _COIL_KINDS:
                 continue
-            ra, rb = self.find(el.left), self.find(el.right)
-            if ra != rb:
-                self.parent[rb] = ra
-
-    def find(self, wire: str) -> str:
-        parent = self.parent
-        parent.setdefault(wire, wire)
-        root = wire
-        while parent[root] != root:
-            root = parent[root]
-        while parent[wire] != root:
-            parent[wire], wire = root, parent[wire]
-        return root
+            self.sets.join(el.left, el.right)
+        self.find = self.sets.find
 
     def direct(self, output: Element, load: Element) -> bool:
         ends = {self.find(w) for w in (load.left, load.right) if w not in self.rails}
