@@ -1,7 +1,8 @@
 """The circuit graph of a schematic and the questions rules ask of it.
 
-``Circuit(schematic)`` holds one ``networkx.MultiGraph``: wires are nodes,
-each element is an edge keyed by ``element.index`` with ``element=<Element>``.
+``Circuit(schematic)`` offers one ``networkx.MultiGraph`` (built on first
+use): wires are nodes, each element is an edge keyed by ``element.index``
+with ``element=<Element>``.
 The analyses below are computed lazily and cached, since many rules ask the
 same questions of the same loads.
 
@@ -110,6 +111,10 @@ def _gc_paused(method: F) -> F:
             gc.enable()
 
     return paused  # type: ignore[return-value]
+
+
+def _index(el: Element) -> int:
+    return el.index
 
 
 def path_text(start: str, path: Iterable[Element]) -> str:
@@ -670,15 +675,27 @@ def _serving_edges(edges: list[Edge], s: str, t: str, u: str, v: str) -> set[int
 class _Route:
     """What is known of one load on one supply: its region and one path."""
 
-    __slots__ = ("supply", "edges", "paths", "path", "_serve", "_series")
+    __slots__ = ("supply", "elements", "paths", "path", "_serve", "_series")
 
-    def __init__(self, supply: Supply, edges: list[Edge], paths):
+    def __init__(self, supply: Supply, elements: list[Element], paths):
         self.supply = supply
-        self.edges = edges
+        # The region as its elements (index order), not as edge tuples: routes
+        # are kept for every load while the rules run, and a tuple per edge
+        # held the largest share of them; ``edges`` builds the tuples for the
+        # analysis at hand.
+        self.elements = elements
         self.paths = paths  # (q1, q2) from _two_paths, or None
         self.path: list[int] | None = None
         self._serve: set[int] | None = None
         self._series: set[int] | None = None
+
+    @property
+    def edges(self) -> list[Edge]:
+        return _edges(self.elements)
+
+
+def _edges(elements: list[Element]) -> list[Edge]:
+    return [(el.index, el.left, el.right) for el in elements]
 
 
 class Circuit:
@@ -687,14 +704,15 @@ class Circuit:
     @_gc_paused
     def __init__(self, schematic: Schematic):
         self.schematic = schematic
-        self.graph = nx.MultiGraph()
-        for rung in schematic.rungs:
-            for path in rung.paths:
-                self.graph.add_nodes_from(path.wires)
         self._elements: list[Element] = schematic.elements
-        for el in self._elements:
-            self.graph.add_edge(el.left, el.right, key=el.index, element=el)
-        self._by_index = {el.index: el for el in self._elements}
+        # Element by index. The loader numbers elements 0, 1, 2, ... in file
+        # order, so the schematic's own element list answers ``[index]`` at no
+        # cost; a dict (an entry and an int per element) only for a hand-built
+        # schematic numbered otherwise.
+        if all(el.index == i for i, el in enumerate(self._elements)):
+            self._by_index: list[Element] | dict[int, Element] = self._elements
+        else:
+            self._by_index = {el.index: el for el in self._elements}
         self._supplies = [s for s in schematic.supplies.values()]
         self._rail_supply: dict[str, Supply] = {}
         for s in self._supplies:
@@ -702,6 +720,24 @@ class Circuit:
                 self._rail_supply.setdefault(w, s)
         self._routes: dict[int, _Route | None] = {}
         self._loose_routes: dict[int, tuple[_Route, Element] | None] = {}
+
+    @cached_property
+    @_gc_paused
+    def graph(self) -> nx.MultiGraph:
+        """The circuit as a ``networkx.MultiGraph``: wires are nodes, each element an edge.
+
+        Edges are keyed by ``element.index`` with ``element=<Element>``. Built
+        on first use: none of the analyses below need it, and on a large
+        panel it is one of the largest structures alive (several times the
+        file's size), so a run whose rules never ask for it never pays for it.
+        """
+        graph = nx.MultiGraph()
+        for rung in self.schematic.rungs:
+            for path in rung.paths:
+                graph.add_nodes_from(path.wires)
+        for el in self._elements:
+            graph.add_edge(el.left, el.right, key=el.index, element=el)
+        return graph
 
     # -- plain facts ----------------------------------------------------
     @cached_property
@@ -760,11 +796,11 @@ class Circuit:
                 out.append(s)
         return out
 
-    def _region(self, load: Element, supply: Supply, parts: _Parts) -> list[Edge]:
-        """Elements that can be on a path hot-load-common (the load left out)."""
+    def _region(self, load: Element, supply: Supply, parts: _Parts) -> list[Element]:
+        """Elements that can be on a path hot-load-common (the load left out), index order."""
         allowed = {supply.hot, supply.common}
         seen: set[int] = set()
-        edges: list[Edge] = []
+        region: list[Element] = []
         for w in (load.left, load.right):
             if w in self.rails:
                 continue
@@ -775,9 +811,9 @@ class Circuit:
                 seen.add(el.index)
                 if any(x in self.rails and x not in allowed for x in (el.left, el.right)):
                     continue  # another supply's rail is never passed
-                edges.append((el.index, el.left, el.right))
-        edges.sort()
-        return edges
+                region.append(el)
+        region.sort(key=_index)
+        return region
 
     def _route(self, load: Element) -> _Route | None:
         if load.index in self._routes:
@@ -786,8 +822,8 @@ class Circuit:
         if load.role == LOAD:
             first = None
             for s in self._candidates(load, self._non_load_parts):
-                edges = self._region(load, s, self._non_load_parts)
-                r = _Route(s, edges, _two_paths(edges, s.hot, s.common, load.left, load.right))
+                region = self._region(load, s, self._non_load_parts)
+                r = _Route(s, region, _two_paths(_edges(region), s.hot, s.common, load.left, load.right))
                 if first is None:
                     first = r
                 if r.paths is not None:
@@ -1002,10 +1038,10 @@ class Circuit:
             result = None
             parts = self._all_parts
             for s in self._candidates(load, parts):
-                edges = self._region(load, s, parts)
-                paths = _two_paths(edges, s.hot, s.common, load.left, load.right)
+                region = self._region(load, s, parts)
+                paths = _two_paths(_edges(region), s.hot, s.common, load.left, load.right)
                 if paths is not None:
-                    result = (_Route(s, edges, paths), load)
+                    result = (_Route(s, region, paths), load)
                     break
             self._loose_routes[load.index] = result
         return self._loose_routes[load.index]

@@ -134,7 +134,12 @@ def read_text(path: str, limits: Limits) -> tuple[str | None, Diagnostic | None]
             os.close(fd)
             return None, format_error(path, 1, 1, f"file is {info.st_size / 1e6:.1f} MB, above the limit of {limits.max_file_bytes / 1e6:.1f} MB (limits.max_file_bytes)")
         with os.fdopen(fd, "rb") as handle:
-            data = handle.read(limits.max_file_bytes + 1)
+            # Asked for the size fstat gave (plus one byte, to see growth) rather
+            # than the limit: read(n) sets aside n bytes before it reads, which
+            # for the limit is tens of megabytes for a file of one.
+            data = handle.read(info.st_size + 1)
+            if len(data) > info.st_size:  # grown since fstat: read on, up to the limit
+                data += handle.read(max(0, limits.max_file_bytes + 1 - len(data)))
         if len(data) > limits.max_file_bytes:
             return None, format_error(path, 1, 1, f"file is above the limit of {limits.max_file_bytes / 1e6:.1f} MB (limits.max_file_bytes)")
     except IsADirectoryError:

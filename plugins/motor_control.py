@@ -306,14 +306,19 @@ def _block_of(ctx: CheckContext) -> dict[int, int]:
     for el in ctx.schematic.elements:
         if el.role and el.role != LOAD and el.left != el.right:
             graph.add_edge(el.left, el.right)
-    pair_block: dict[frozenset, int] = {}
+    # Wire pairs as sorted tuples (a quarter of a frozenset's size), and the
+    # graph let go before the answer is built: on a large panel both are
+    # the size of the circuit, and only the answer is needed afterwards.
+    pair_block: dict[tuple[str, str], int] = {}
     for number, edges in enumerate(nx.biconnected_component_edges(graph)):
         for u, v in edges:
-            pair_block[frozenset((u, v))] = number
+            pair_block[(u, v) if u <= v else (v, u)] = number
+    del graph
     out = {}
     for el in ctx.schematic.elements:
         if el.role and el.role != LOAD and el.left != el.right:
-            out[el.index] = pair_block[frozenset((el.left, el.right))]
+            a, b = el.left, el.right
+            out[el.index] = pair_block[(a, b) if a <= b else (b, a)]
     return out
 
 

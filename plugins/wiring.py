@@ -16,7 +16,8 @@ whose tag or part is unknown are reported once, by ``unknown-device`` or
 """
 from __future__ import annotations
 
-from typing import Iterable, Iterator
+from collections import deque
+from typing import Callable, Iterable, Iterator
 
 import networkx as nx
 
@@ -323,34 +324,54 @@ def check_coil_duplicate(ctx: CheckContext) -> Iterator[Finding]:
 # ---------------------------------------------------------------------------
 
 
-def _rails_reached(ctx: CheckContext, load: Element, wire: str) -> list[str]:
-    """Rails that ``wire`` reaches through non-load elements, the load itself left out."""
-    graph = ctx.circuit.graph
-    rails = _rails(ctx.schematic)
-    if wire in rails:
-        return [wire]
-    if wire not in graph:
-        return []
-    seen = {wire}
-    stack = [wire]
-    found = set()
-    while stack:
-        w = stack.pop()
-        for _, other, data in graph.edges(w, data=True):
-            el = data.get("element")
-            if el is None or el is load or el.role in (K.LOAD, "") or other in seen:
-                continue
-            seen.add(other)
-            if other in rails:
-                found.add(other)
-            else:
-                stack.append(other)
-    return sorted(found)
+def _rail_reach(sch: Schematic) -> Callable[[str], list[str]]:
+    """A function giving the rails a wire reaches through non-load elements, passing no rail.
+
+    The parts of the non-load, known elements with the rails left out are
+    found once (union-find), with the rails each part touches, so that no
+    graph of the whole circuit is built and each question is answered at
+    once. (A load is never crossed, so leaving out the load asked about
+    changes nothing.)
+    """
+    rails = _rails(sch)
+    parent: dict[str, str] = {}
+
+    def find(w: str) -> str:
+        parent.setdefault(w, w)
+        while parent[w] != w:
+            parent[w] = parent[parent[w]]
+            w = parent[w]
+        return w
+
+    touching: list[tuple[str, str]] = []  # (rail, non-rail wire) joined by an element
+    for el in sch.elements:
+        if el.role in (K.LOAD, ""):
+            continue
+        a, b = el.left, el.right
+        if a in rails and b not in rails:
+            touching.append((a, b))
+        elif b in rails and a not in rails:
+            touching.append((b, a))
+        elif a not in rails:
+            ra, rb = find(a), find(b)
+            if ra != rb:
+                parent[ra] = rb
+    reached: dict[str, set[str]] = {}
+    for rail, wire in touching:
+        reached.setdefault(find(wire), set()).add(rail)
+
+    def rails_of(wire: str) -> list[str]:
+        if wire in rails:
+            return [wire]
+        return sorted(reached.get(find(wire), ())) if wire in parent else []
+
+    return rails_of
 
 
 def check_open_circuit(ctx: CheckContext) -> Iterator[Finding]:
     sch, circuit = ctx.schematic, ctx.circuit
     tainted = _tainted_wires(sch)
+    rails_of = _rail_reach(sch)
     for load in circuit.loads:
         if load.left in tainted or load.right in tainted:
             continue
@@ -358,7 +379,7 @@ def check_open_circuit(ctx: CheckContext) -> Iterator[Finding]:
             continue
         if circuit.reaches_rail_only_through_loads(load):
             continue  # loads-in-series says so, more precisely
-        reached = [_rails_reached(ctx, load, wire) for wire in (load.left, load.right)]
+        reached = [rails_of(wire) for wire in (load.left, load.right)]
         supplies = {sch.supply_of_rail(r).name for rails in reached for r in rails if sch.supply_of_rail(r)}
         if len(supplies) > 1:
             continue  # joined to two supplies: supply-cross says so
@@ -378,10 +399,10 @@ def check_open_circuit(ctx: CheckContext) -> Iterator[Finding]:
         )
 
 
-def _fed_from_hot(ctx: CheckContext, load: Element) -> bool:
+def _fed_from_hot(ctx: CheckContext, load: Element, rails_of: Callable[[str], list[str]]) -> bool:
     """Whether a side of ``load`` reaches a hot rail without passing another load."""
     hots = {s.hot for s in ctx.schematic.supplies.values()}
-    return any(r in hots for wire in (load.left, load.right) for r in _rails_reached(ctx, load, wire))
+    return any(r in hots for wire in (load.left, load.right) for r in rails_of(wire))
 
 
 def check_loads_in_series(ctx: CheckContext) -> Iterator[Finding]:
@@ -389,7 +410,8 @@ def check_loads_in_series(ctx: CheckContext) -> Iterator[Finding]:
     tainted = _tainted_wires(sch)
     # The second load of a pair is the one farther from hot: the one that
     # does not reach a hot rail without passing a load; file order breaks ties.
-    order = {load.index: (0 if _fed_from_hot(ctx, load) else 1, load.index) for load in circuit.loads}
+    rails_of = _rail_reach(sch)
+    order = {load.index: (0 if _fed_from_hot(ctx, load, rails_of) else 1, load.index) for load in circuit.loads}
     partners: dict[int, list[Element]] = {}
     seconds: dict[int, Element] = {}
     for load in circuit.loads:
@@ -525,7 +547,17 @@ def check_voltage_mismatch(ctx: CheckContext) -> Iterator[Finding]:
 # ---------------------------------------------------------------------------
 
 
-def _pairs_on_simple_paths(graph: nx.Graph, source: str, target: str) -> set[frozenset]:
+# An undirected edge as its two wires in sorted order: a plain tuple, a
+# quarter of the size of a frozenset, and there is one per element of the
+# circuit while grounded-side-switching runs.
+_Pair = tuple[str, str]
+
+
+def _pair(a: str, b: str) -> _Pair:
+    return (a, b) if a <= b else (b, a)
+
+
+def _pairs_on_simple_paths(graph: nx.Graph, source: str, target: str) -> set[_Pair]:
     """Edges (as wire pairs) that lie on at least one simple path from ``source`` to ``target``.
 
     An edge lies on such a path exactly when its biconnected block lies on the
@@ -538,19 +570,19 @@ def _pairs_on_simple_paths(graph: nx.Graph, source: str, target: str) -> set[fro
     tree, block_edges = _block_cut_tree(graph)
     start, goal = _tree_node(tree, source), _tree_node(tree, target)
     route = nx.shortest_path(tree, start, goal)
-    out: set[frozenset] = set()
+    out: set[_Pair] = set()
     for node in route:
         if node[0] == "B":
             out |= block_edges[node[1]]
     return out
 
 
-def _block_cut_tree(graph: nx.Graph) -> tuple[nx.Graph, list[set[frozenset]]]:
+def _block_cut_tree(graph: nx.Graph) -> tuple[nx.Graph, list[set[_Pair]]]:
     tree = nx.Graph()
-    blocks: list[set[frozenset]] = []
+    blocks: list[set[_Pair]] = []
     cuts = set(nx.articulation_points(graph))
     for i, edges in enumerate(nx.biconnected_component_edges(graph)):
-        pairs = {frozenset(e) for e in edges}
+        pairs = {_pair(*e) for e in edges}
         blocks.append(pairs)
         tree.add_node(("B", i))
         for wire in {w for e in edges for w in e}:
@@ -569,16 +601,15 @@ class _NonLoadGraph:
     """The circuit's non-load, known elements as wire pairs, read once for every supply."""
 
     def __init__(self, ctx: CheckContext):
-        self.wires: dict[str, None] = {}  # in the order a graph of the edges would hold them
-        self.pairs: dict[frozenset, tuple[str, str]] = {}
-        self.elements: dict[frozenset, list[Element]] = {}
-        for a, b, data in ctx.circuit.graph.edges(data=True):
-            el = data.get("element")
-            if el is None or el.role in (K.LOAD, "") or a == b:
+        self.wires: dict[str, None] = {}  # an ordered set, in file order
+        self.elements: dict[_Pair, list[Element]] = {}  # keyed by the wire pair, in ``_pair`` order
+        # Read from the elements, not ``circuit.graph``: the circuit builds its
+        # graph only when asked, and on a large panel it is the bulk of memory.
+        for el in ctx.schematic.elements:
+            a, b = el.left, el.right
+            if el.role in (K.LOAD, "") or a == b:
                 continue
-            pair = frozenset((a, b))
-            self.elements.setdefault(pair, []).append(el)
-            self.pairs.setdefault(pair, (a, b))
+            self.elements.setdefault(_pair(a, b), []).append(el)
             self.wires.setdefault(a)
             self.wires.setdefault(b)
 
@@ -586,7 +617,7 @@ class _NonLoadGraph:
         """The graph of the edges with the wires ``removed`` taken out (built directly, not copied)."""
         graph = nx.Graph()
         graph.add_nodes_from(w for w in self.wires if w not in removed)
-        graph.add_edges_from((a, b) for a, b in self.pairs.values() if a not in removed and b not in removed)
+        graph.add_edges_from((a, b) for a, b in self.elements if a not in removed and b not in removed)
         return graph
 
 
@@ -602,12 +633,23 @@ class _SupplySides:
 
     def __init__(self, base: "_NonLoadGraph", supply: Supply, rails: set[str]):
         self.supply = supply
+        self.base = base
         self.elements = base.elements
+        self._hot_removed = {r for r in rails if r != supply.hot}
         self.common_graph = base.without({r for r in rails if r != supply.common})
-        self.hot_graph = base.without({r for r in rails if r != supply.hot})
         self._common_component = _component_map(self.common_graph)
-        self._hot_component = _component_map(self.hot_graph)
+        # The hot side needs only which part each wire is in (found without a
+        # graph); its graph is built only for a load bypassed on paper, so that
+        # one graph, not two, is alive on a large panel.
+        self._hot_component = _component_map_of_pairs(base, self._hot_removed)
+        self._hot_graph: nx.Graph | None = None
         self._tree = None
+
+    @property
+    def hot_graph(self) -> nx.Graph:
+        if self._hot_graph is None:
+            self._hot_graph = self.base.without(self._hot_removed)
+        return self._hot_graph
 
     def _reaches_hot(self, wire: str, other_side: str) -> bool:
         hot = self.supply.hot
@@ -624,7 +666,7 @@ class _SupplySides:
     def common_side(self, load: Element) -> list[Element]:
         """Non-load elements on some energizing path of ``load`` between it and the common rail."""
         hot, common = self.supply.hot, self.supply.common
-        pairs: set[frozenset] = set()
+        pairs: set[_Pair] = set()
         for hot_side, common_side in ((load.left, load.right), (load.right, load.left)):
             if hot_side == common or common_side == hot or hot_side == common_side:
                 continue
@@ -643,23 +685,68 @@ class _SupplySides:
         found = [el for pair in pairs for el in self.elements.get(pair, ())]
         return sorted(found, key=lambda e: e.index)
 
-    def _on_paths_to_common(self, wire: str) -> set[frozenset]:
+    def _on_paths_to_common(self, wire: str) -> set[_Pair]:
         if self._tree is None:
-            tree, blocks = _block_cut_tree(self.common_graph)
-            goal = _tree_node(tree, self.supply.common)
-            parents = nx.predecessor(tree, goal) if goal in tree else {}
-            self._tree = (tree, blocks, goal, parents)
-        tree, blocks, goal, parents = self._tree
-        node = _tree_node(tree, wire)
-        if node not in parents:
-            return set()
-        out: set[frozenset] = set()
-        while True:
-            if node[0] == "B":
-                out |= blocks[node[1]]
-            if node == goal:
-                return out
-            node = parents[node][0]
+            self._tree = _TreeToRoot(self.common_graph, self.supply.common)
+        return self._tree.pairs_to_root(wire)
+
+
+class _TreeToRoot:
+    """The block-cut tree of a graph, kept only as links towards one root wire.
+
+    Answers what ``_block_cut_tree`` and a walk to the root would, with no
+    tree graph built: each block knows the wire above it, each wire the block
+    above it. On a large panel the tree as a graph of tuple-named nodes was
+    the largest structure this rule built.
+    """
+
+    __slots__ = ("root", "blocks", "up_of_block", "up_of_wire")
+
+    def __init__(self, graph: nx.Graph, root: str):
+        self.root = root
+        self.blocks: list[set[_Pair]] = []
+        # A wire in more than one block is a cut vertex; the others are leaves of the tree.
+        first: dict[str, int] = {}
+        more: dict[str, list[int]] = {}
+        for i, edges in enumerate(nx.biconnected_component_edges(graph)):
+            pairs = {_pair(*e) for e in edges}
+            self.blocks.append(pairs)
+            for w in {w for pair in pairs for w in pair}:
+                if w in first:
+                    more.setdefault(w, [first[w]]).append(i)
+                else:
+                    first[w] = i
+        self.up_of_block: list[str | None] = [None] * len(self.blocks)
+        self.up_of_wire: dict[str, int] = {}
+        if root not in first:
+            return
+        seen = [False] * len(self.blocks)
+        queue = deque([root])
+        while queue:
+            w = queue.popleft()
+            for b in more.get(w) or (first[w],):
+                if seen[b]:
+                    continue
+                seen[b] = True
+                self.up_of_block[b] = w
+                for pair in self.blocks[b]:
+                    for x in pair:
+                        if x != root and x not in self.up_of_wire:
+                            self.up_of_wire[x] = b
+                            if x in more:
+                                queue.append(x)
+
+    def pairs_to_root(self, wire: str) -> set[_Pair]:
+        """The edges of the blocks on the tree path from ``wire`` to the root."""
+        out: set[_Pair] = set()
+        b = self.up_of_wire.get(wire)
+        while b is not None:
+            out |= self.blocks[b]
+            up = self.up_of_block[b]
+            if up == self.root:
+                break
+            b = self.up_of_wire[up]
+        return out
 
 
 def _component_map(graph: nx.Graph) -> dict[str, int]:
@@ -668,6 +755,29 @@ def _component_map(graph: nx.Graph) -> dict[str, int]:
         for wire in comp:
             out[wire] = i
     return out
+
+
+def _component_map_of_pairs(base: "_NonLoadGraph", removed: set[str]) -> dict[str, int]:
+    """Like ``_component_map(base.without(removed))``, by union-find, with no graph built.
+
+    Only whether two wires share a part is ever asked, so the numbers need
+    not match those of ``_component_map``.
+    """
+    parent: dict[str, str] = {w: w for w in base.wires if w not in removed}
+
+    def find(w: str) -> str:
+        while parent[w] != w:
+            parent[w] = parent[parent[w]]
+            w = parent[w]
+        return w
+
+    for a, b in base.elements:
+        if a in parent and b in parent:
+            ra, rb = find(a), find(b)
+            if ra != rb:
+                parent[ra] = rb
+    numbers: dict[str, int] = {}
+    return {w: numbers.setdefault(find(w), len(numbers)) for w in parent}
 
 
 def _is_overload_contact(sch: Schematic, el: Element) -> bool:
