@@ -66,7 +66,10 @@ from collections import deque
 from functools import cached_property
 from typing import TYPE_CHECKING, Callable, Iterable, TypeVar
 
-import networkx as nx
+from typing import TYPE_CHECKING as _TYPE_CHECKING
+
+if _TYPE_CHECKING:  # pragma: no cover
+    import networkx as nx
 
 from .model import Element, Schematic, Supply
 
@@ -731,7 +734,7 @@ class Circuit:
         panel it is one of the largest structures alive (several times the
         file's size), so a run whose rules never ask for it never pays for it.
         """
-        graph = nx.MultiGraph()
+        graph = _nx().MultiGraph()
         for rung in self.schematic.rungs:
             for path in rung.paths:
                 graph.add_nodes_from(path.wires)
@@ -1084,3 +1087,10 @@ class Circuit:
                         found.append((el, first, s))
         found.sort(key=lambda item: item[0].index)
         return found
+
+
+def _nx():
+    """networkx, imported when a graph is first needed: a run answered from the cache never loads it."""
+    import networkx
+
+    return networkx

@@ -68,7 +68,10 @@ from __future__ import annotations
 
 from typing import Iterable, Iterator
 
-import networkx as nx
+from typing import TYPE_CHECKING as _TYPE_CHECKING
+
+if _TYPE_CHECKING:  # pragma: no cover
+    import networkx as nx
 
 from ctllint import hookimpl
 from ctllint.api import CheckContext, Example, Finding, Option, Rule
@@ -302,7 +305,7 @@ def _block_of(ctx: CheckContext) -> dict[int, int]:
     no load, which is what "one contact bypasses the other" means on a
     drawing. Parallel elements between the same two wires are one loop.
     """
-    graph = nx.Graph()
+    graph = _nx().Graph()
     for el in ctx.schematic.elements:
         if el.role and el.role != LOAD and el.left != el.right:
             graph.add_edge(el.left, el.right)
@@ -310,7 +313,7 @@ def _block_of(ctx: CheckContext) -> dict[int, int]:
     # graph let go before the answer is built: on a large panel both are
     # the size of the circuit, and only the answer is needed afterwards.
     pair_block: dict[tuple[str, str], int] = {}
-    for number, edges in enumerate(nx.biconnected_component_edges(graph)):
+    for number, edges in enumerate(_nx().biconnected_component_edges(graph)):
         for u, v in edges:
             pair_block[(u, v) if u <= v else (v, u)] = number
     del graph
@@ -865,3 +868,10 @@ RULES = [
 @hookimpl
 def ctllint_rules():
     return RULES
+
+
+def _nx():
+    """networkx, imported when a graph is first needed: a run answered from the cache never loads it."""
+    import networkx
+
+    return networkx

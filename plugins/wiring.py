@@ -19,7 +19,10 @@ from __future__ import annotations
 from collections import deque
 from typing import Callable, Iterable, Iterator
 
-import networkx as nx
+from typing import TYPE_CHECKING as _TYPE_CHECKING
+
+if _TYPE_CHECKING:  # pragma: no cover
+    import networkx as nx
 
 from ctllint import hookimpl
 from ctllint import kinds as K
@@ -565,11 +568,11 @@ def _pairs_on_simple_paths(graph: nx.Graph, source: str, target: str) -> set[_Pa
     edge lies on a simple path between any two distinct vertices. Linear in
     the graph's size; no path is enumerated.
     """
-    if source == target or source not in graph or target not in graph or not nx.has_path(graph, source, target):
+    if source == target or source not in graph or target not in graph or not _nx().has_path(graph, source, target):
         return set()
     tree, block_edges = _block_cut_tree(graph)
     start, goal = _tree_node(tree, source), _tree_node(tree, target)
-    route = nx.shortest_path(tree, start, goal)
+    route = _nx().shortest_path(tree, start, goal)
     out: set[_Pair] = set()
     for node in route:
         if node[0] == "B":
@@ -578,10 +581,10 @@ def _pairs_on_simple_paths(graph: nx.Graph, source: str, target: str) -> set[_Pa
 
 
 def _block_cut_tree(graph: nx.Graph) -> tuple[nx.Graph, list[set[_Pair]]]:
-    tree = nx.Graph()
+    tree = _nx().Graph()
     blocks: list[set[_Pair]] = []
-    cuts = set(nx.articulation_points(graph))
-    for i, edges in enumerate(nx.biconnected_component_edges(graph)):
+    cuts = set(_nx().articulation_points(graph))
+    for i, edges in enumerate(_nx().biconnected_component_edges(graph)):
         pairs = {_pair(*e) for e in edges}
         blocks.append(pairs)
         tree.add_node(("B", i))
@@ -615,7 +618,7 @@ class _NonLoadGraph:
 
     def without(self, removed: set[str]) -> nx.Graph:
         """The graph of the edges with the wires ``removed`` taken out (built directly, not copied)."""
-        graph = nx.Graph()
+        graph = _nx().Graph()
         graph.add_nodes_from(w for w in self.wires if w not in removed)
         graph.add_edges_from((a, b) for a, b in self.elements if a not in removed and b not in removed)
         return graph
@@ -661,7 +664,7 @@ class _SupplySides:
         if self._hot_component.get(other_side) != comp:
             return True
         graph = self.hot_graph.subgraph(n for n in self.hot_graph if n != other_side)
-        return nx.has_path(graph, wire, hot)
+        return _nx().has_path(graph, wire, hot)
 
     def common_side(self, load: Element) -> list[Element]:
         """Non-load elements on some energizing path of ``load`` between it and the common rail."""
@@ -679,7 +682,7 @@ class _SupplySides:
                 continue
             if self._common_component.get(hot_side) == comp:
                 graph = self.common_graph.subgraph(n for n in self.common_graph if n != hot_side)
-                pairs |= _pairs_on_simple_paths(nx.Graph(graph), common_side, common)
+                pairs |= _pairs_on_simple_paths(_nx().Graph(graph), common_side, common)
             else:
                 pairs |= self._on_paths_to_common(common_side)
         found = [el for pair in pairs for el in self.elements.get(pair, ())]
@@ -708,7 +711,7 @@ class _TreeToRoot:
         # A wire in more than one block is a cut vertex; the others are leaves of the tree.
         first: dict[str, int] = {}
         more: dict[str, list[int]] = {}
-        for i, edges in enumerate(nx.biconnected_component_edges(graph)):
+        for i, edges in enumerate(_nx().biconnected_component_edges(graph)):
             pairs = {_pair(*e) for e in edges}
             self.blocks.append(pairs)
             for w in {w for pair in pairs for w in pair}:
@@ -751,7 +754,7 @@ class _TreeToRoot:
 
 def _component_map(graph: nx.Graph) -> dict[str, int]:
     out = {}
-    for i, comp in enumerate(nx.connected_components(graph)):
+    for i, comp in enumerate(_nx().connected_components(graph)):
         for wire in comp:
             out[wire] = i
     return out
@@ -1128,3 +1131,10 @@ RULES = [
 @hookimpl
 def ctllint_rules() -> Iterable[Rule]:
     return RULES
+
+
+def _nx():
+    """networkx, imported when a graph is first needed: a run answered from the cache never loads it."""
+    import networkx
+
+    return networkx
