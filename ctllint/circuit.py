@@ -71,6 +71,7 @@ from typing import TYPE_CHECKING as _TYPE_CHECKING
 if _TYPE_CHECKING:  # pragma: no cover
     import networkx as nx
 
+from .wiresets import WireSets
 from .model import Element, Schematic, Supply
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -144,26 +145,16 @@ class _Parts:
     """
 
     def __init__(self, elements: list[Element], rails: set[str]):
-        parent: dict[str, str] = {}
-
-        def find(w: str) -> str:
-            root = w
-            while parent[root] != root:
-                root = parent[root]
-            while parent[w] != root:
-                parent[w], w = root, parent[w]
-            return root
-
+        sets = WireSets()
         for el in elements:
             for w in (el.left, el.right):
                 if w not in rails:
-                    parent.setdefault(w, w)
+                    sets.find(w)  # a non-rail wire is a part of its own to begin with
             if el.left not in rails and el.right not in rails:
-                ra, rb = find(el.left), find(el.right)
-                if ra != rb:
-                    parent[rb] = ra
+                sets.join(el.left, el.right)
+        find = sets.find
         self._find = find
-        self._parent = parent
+        self._parent = sets.parent
         self.members: dict[str, list[Element]] = {}
         self.rails_of: dict[str, list[str]] = {}
         for el in elements:

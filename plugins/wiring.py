@@ -31,6 +31,7 @@ from ctllint.circuit import path_text
 from ctllint.model import Device, Element, Schematic, Severity, Supply
 from ctllint.quantities import format_si
 from ctllint.tables import COIL_MAX_FRACTION, COIL_MIN_FRACTION, coil_voltage_ok
+from ctllint.wiresets import WireSets
 
 # The built-in kinds tell which fields name other devices and which parts a
 # kind has, for messages. Roles themselves come from the loader, which knows
@@ -97,20 +98,9 @@ def _tainted_wires(sch: Schematic) -> set[str]:
     which ``unknown-device``/``unknown-part`` already report.
     """
     rails = _rails(sch)
-    parent: dict[str, str] = {}
-
-    def find(w: str) -> str:
-        parent.setdefault(w, w)
-        while parent[w] != w:
-            parent[w] = parent[parent[w]]
-            w = parent[w]
-        return w
-
-    for el in sch.elements:
-        if el.left not in rails and el.right not in rails:
-            parent[find(el.left)] = find(el.right)
-    roots = {find(w) for el in sch.elements if not el.role for w in (el.left, el.right) if w not in rails}
-    return {w for w in parent if find(w) in roots}
+    sets = WireSets((el.left, el.right) for el in sch.elements if el.left not in rails and el.right not in rails)
+    roots = {sets.find(w) for el in sch.elements if not el.role for w in (el.left, el.right) if w not in rails}
+    return {w for w in list(sets.parent) if sets.find(w) in roots}
 
 
 def _and(words: list[str]) -> str:
@@ -766,21 +756,15 @@ def _component_map_of_pairs(base: "_NonLoadGraph", removed: set[str]) -> dict[st
     Only whether two wires share a part is ever asked, so the numbers need
     not match those of ``_component_map``.
     """
-    parent: dict[str, str] = {w: w for w in base.wires if w not in removed}
-
-    def find(w: str) -> str:
-        while parent[w] != w:
-            parent[w] = parent[parent[w]]
-            w = parent[w]
-        return w
-
+    sets = WireSets()
+    for w in base.wires:
+        if w not in removed:
+            sets.find(w)  # every remaining wire is a set of its own to begin with
     for a, b in base.elements:
-        if a in parent and b in parent:
-            ra, rb = find(a), find(b)
-            if ra != rb:
-                parent[ra] = rb
+        if a in sets.parent and b in sets.parent:
+            sets.join(a, b)
     numbers: dict[str, int] = {}
-    return {w: numbers.setdefault(find(w), len(numbers)) for w in parent}
+    return {w: numbers.setdefault(sets.find(w), len(numbers)) for w in list(sets.parent)}
 
 
 def _is_overload_contact(sch: Schematic, el: Element) -> bool:
