@@ -176,7 +176,11 @@ def write_output(text: str, output: str | None) -> None:
 # -- check ---------------------------------------------------------------------
 
 def _configure_check(p: argparse.ArgumentParser) -> None:
-    p.description = "Check schematic files and print findings.\n\n" + SAFETY_NOTE
+    p.description = "Check schematic files and print findings.\n\n" + textwrap.fill(SAFETY_NOTE, 78)
+    p.epilog = ("exit status: 0 no finding at or above --fail-on, 1 at least one, 2 usage or\n"
+                "configuration error, 3 internal error.\n"
+                "suppress one finding with a comment on its line:\n"
+                "  # ctllint-allow: RULE -- reason")
     p.add_argument("paths", nargs="*", metavar="PATH", help="files or folders (default: the current folder); folders are searched for *.ctl.yaml and *.ctl.yml")
     p.add_argument("--format", default="text", metavar="FORMAT", help="text (default), json, sarif, junit, or a plugin's format")
     p.add_argument("-o", "--output", metavar="FILE", help="write the report to FILE (atomically) instead of standard output")
