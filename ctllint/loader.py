@@ -227,6 +227,7 @@ class _Loader:
         if not isinstance(node, MappingNode):
             self.fail(node, f"{what} must be a mapping (key: value), not {_describe(node)}")
         out = []
+        seen: dict[str, Node] = {}
         for knode, vnode in node.value:
             key = scalar_value(knode)
             if isinstance(key, int) and not isinstance(key, bool):
@@ -234,6 +235,13 @@ class _Loader:
             if not isinstance(key, str):
                 self.error(knode, f"key '{knode.value}' in {what} must be text")
                 continue
+            if key == "<<" and knode.plain:
+                self.error(knode, f"'<<' merge keys are not YAML 1.2: write the fields of {what} out, or make the whole value an alias (*name)")
+                continue
+            if key in seen:  # 10 and "10" are the same tag, supply or wire: a duplicate, not an overwrite
+                self.error(knode, f"duplicate key '{knode.value}' in {what} (first at line {seen[key].line})")
+                continue
+            seen[key] = knode
             out.append((key, knode, vnode))
         return out
 
@@ -336,7 +344,8 @@ class _Loader:
             self.fail(root, "missing 'ctllint: 1' (the format version) at the top level")
         vnode = keys["ctllint"][1]
         version = self.scalar(vnode, "ctllint")
-        if version != FORMAT_VERSION or isinstance(version, bool):
+        # Only the whole number 1 as written: 1.0, 01 or 0x1 are other values
+        if version != FORMAT_VERSION or type(version) is not int or vnode.value.strip() != str(FORMAT_VERSION):
             self.fail(vnode, f"format version '{vnode.value}' is not supported: this ctllint reads version {FORMAT_VERSION}")
         device_file = "supplies" not in keys and "rungs" not in keys and "expect" not in keys and "use" not in keys and "devices" in keys
         sch.device_file = device_file
@@ -461,6 +470,8 @@ class _Loader:
             names = []
             for n in items:
                 name = self.wire(n, "position name")
+                if "." in name:
+                    self.fail(n, f"position name '{name}' holds a dot: it is used as a part name (TAG.{name})")
                 if name in names:
                     self.fail(n, f"position '{name}' is listed twice")
                 names.append(name)
@@ -546,7 +557,10 @@ class _Loader:
         if "size" not in keys:
             self.fail(node, f"{what}: give a list of category ratings or {{size: N}}")
         size = self.scalar(keys["size"], "size")
-        size = str(size) if isinstance(size, int) and not isinstance(size, bool) else size
+        if isinstance(size, int) and not isinstance(size, bool):
+            if keys["size"].value.strip() != str(size):  # a bare 00 is read as 0: a different, larger size
+                self.fail(keys["size"], f"NEMA size '{keys['size'].value}' is read as {size} by YAML; write size 00 as \"00\" and other sizes as plain numbers")
+            size = str(size)
         if size not in NEMA_SIZES:
             self.fail(keys["size"], f"NEMA size '{keys['size'].value}' is not one of {', '.join(NEMA_SIZES)} (write size 00 as \"00\")")
         return PowerRating(nema_size=size)

@@ -110,6 +110,20 @@ def test_yaml_1_2_booleans_on_off_yes_no_are_strings():
     ("ctllint: 1\nsupplies: {}\ndevices:\n  M1: {kind: relay}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - press: M1\n", (9, 16), "press works a pushbutton"),
     ("ctllint: 1\nsupplies: {}\ndevices:\n  SS1: {kind: selector, positions: [off, run]}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - set: {SS1: fast}\n", (9, 15), "not one of its positions"),
     ("ctllint: 1\nsupplies: {}\ndevices:\n  PB1: {kind: pushbutton}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - trip: PB1\n", (9, 15), "trip works an overload"),
+    # FORMAT.md review: the version is the whole number 1, not another spelling of it
+    ("ctllint: 1.0\nsupplies: {}\ndevices: {}\nrungs: []\n", (1, 10), "version"),
+    ("ctllint: 0x1\nsupplies: {}\ndevices: {}\nrungs: []\n", (1, 10), "version"),
+    ("ctllint: 01\nsupplies: {}\ndevices: {}\nrungs: []\n", (1, 10), "version"),
+    # a bare 00 is read as 0, a different size: refused, not silently taken as size 0
+    ("ctllint: 1\nsupplies: {}\ndevices:\n  M1: {kind: contactor, power_rating: {size: 00}}\nrungs: []\n", (4, 46), 'write size 00 as "00"'),
+    # 10 and "10" are the same tag, supply name or check target: the second is a duplicate
+    ("ctllint: 1\nsupplies: {}\ndevices:\n  10: {kind: pilot-light}\n  \"10\": {kind: horn}\nrungs: []\n", (5, 3), "duplicate key"),
+    ("ctllint: 1\nsupplies:\n  1: {hot: L1, common: X2, voltage: 120 VAC}\n  \"1\": {hot: L3, common: X4, voltage: 120 VAC}\ndevices: {}\nrungs: []\n", (4, 3), "duplicate key"),
+    ("ctllint: 1\nsupplies: {}\ndevices:\n  1: {kind: pilot-light}\nrungs: []\nexpect:\n  - name: x\n    steps:\n      - check: {1: on, \"1\": off}\n", (9, 24), "duplicate key"),
+    # position names are part names (SS1.hand): no dot
+    ("ctllint: 1\nsupplies: {}\ndevices:\n  SS1: {kind: selector, positions: [off, hand.1]}\nrungs: []\n", (4, 42), "holds a dot"),
+    # YAML 1.2 has no merge keys: say so at the '<<'
+    ("ctllint: 1\nsupplies: {}\ndevices:\n  PL2:\n    <<: {kind: pilot-light}\nrungs: []\n", (5, 5), "merge keys"),
 ])
 def test_format_errors_are_located(text, where, words):
     found = errors(text)
@@ -170,3 +184,11 @@ def test_use_adds_devices_and_refuses_to_leave_the_repository(tmp_path):
     main.write_text("ctllint: 1\nuse: [lib/dev.ctl.yaml]\n" + body.replace("PL1: {kind: pilot-light}", "PL1: {kind: pilot-light}\n  PB1: {kind: pushbutton}"))
     diags = load_file(str(main)).diagnostics
     assert diags and diags[0].line == 7 and "also defined in" in diags[0].message
+
+
+def test_size_00_quoted_and_plain_sizes_load():
+    for size in ('"00"', "0", "2", '"3"'):
+        text = f"ctllint: 1\nsupplies: {{}}\ndevices:\n  M1: {{kind: contactor, power_rating: {{size: {size}}}}}\nrungs: []\n"
+        result = load_text(text, "t.ctl.yaml")
+        assert result.diagnostics == [], (size, result.diagnostics)
+        assert result.schematic.devices["M1"].get("power_rating").nema_size == size.strip('"')
