@@ -99,12 +99,15 @@ class ContactCount:
 
     no: int
     nc: int
-    changeover: int = 0  # double-throw poles: each gives one NO or one NC use
+    changeover: int = 0  # double-throw poles: each offers one NO and one NC (FORMAT.md)
+
+    def available(self) -> tuple[int, int]:
+        """(NO, NC) uses this device provides."""
+        return self.no + self.changeover, self.nc + self.changeover
 
     def allows(self, no_used: int, nc_used: int) -> bool:
-        extra_no = max(0, no_used - self.no)
-        extra_nc = max(0, nc_used - self.nc)
-        return extra_no + extra_nc <= self.changeover
+        no_max, nc_max = self.available()
+        return no_used <= no_max and nc_used <= nc_max
 
 
 @dataclass(slots=True)

@@ -463,10 +463,16 @@ def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
             if (_is_stop_device(el_dev) or el_dev.kind == "overload") and _in_series_without(circuit, el, coil, own_no):
                 keep.append(el)
         keeps[coil_key] = keep
-    bypassed = [c for c in keeps[coil_key] if circuit.has_energizing_path(coil, without=[start, c])]
+    # A stop or overload stays in series when the seal path passes another
+    # contact of the same device (a stop button with a second NC block in the
+    # seal branch still drops the coil), as stop-in-series judges by device.
+    bypassed = []
+    for c in keeps[coil_key]:
+        if c.tag not in {b.tag for b in bypassed} and circuit.has_energizing_path(coil, without=[start, *circuit.elements_of(c.tag)]):
+            bypassed.append(c)
     if not bypassed:
         return "ok", [], None
-    return "bypass", bypassed, circuit.energizing_path(coil, without=[start, bypassed[0]])
+    return "bypass", bypassed, circuit.energizing_path(coil, without=[start, *circuit.elements_of(bypassed[0].tag)])
 
 # ---------------------------------------------------------------------------
 # interlock

@@ -201,13 +201,18 @@ def check_unknown_part(ctx: CheckContext) -> Iterator[Finding]:
 def _provides(count) -> str:
     given = [f"{n} {what}" for n, what in ((count.no, "NO"), (count.nc, "NC")) if n]
     if count.changeover:
-        given.append(f"{count.changeover} changeover (each one NO or one NC)")
+        given.append(f"{count.changeover} changeover (each one NO and one NC)")
     return " and ".join(given) or "no contacts"
 
 
 def _excess(count, no_used: int, nc_used: int) -> int:
-    """Uses beyond what ``count`` provides, changeover poles taking up either kind."""
-    return max(0, max(0, no_used - count.no) + max(0, nc_used - count.nc) - count.changeover)
+    """Uses beyond what ``count`` provides.
+
+    FORMAT.md: changeover (double-throw) poles "each offer one NO and one
+    NC", so each pole adds one NO use and one NC use (a form-C pole's NO and
+    NC are both there to wire, sharing the pole's common).
+    """
+    return max(0, no_used - count.no - count.changeover) + max(0, nc_used - count.nc - count.changeover)
 
 
 def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
@@ -947,7 +952,7 @@ RULES = [
         doc=(
             "A device has a fixed number of contacts. Drawing more NO or NC uses than it provides gives a "
             "panel that cannot be wired as drawn; the missing contact is usually found at commissioning. "
-            "Changeover (double-throw) poles give one NO or one NC use each. Devices without `contacts` are "
+            "Changeover (double-throw) poles give one NO and one NC use each (FORMAT.md). Devices without `contacts` are "
             "not checked. A selector is drawn by its positions, and a cam can close an NO or an NC block in "
             "any position, so each position use takes one block of either type: a selector is reported when "
             "its position uses outnumber its contact blocks."

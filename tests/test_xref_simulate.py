@@ -94,17 +94,20 @@ def test_xref_changeover_poles_and_a_missing_coil(tmp_path, capsys):
           PL1: {kind: pilot-light}
           PL2: {kind: pilot-light}
           PL3: {kind: pilot-light}
+          PL4: {kind: pilot-light}
         rungs:
           - paths: [[L1, CR1.NO, 2, PL1, X2]]
           - paths: [[L1, CR1.NC, 3, PL2, X2]]
           - paths: [[L1, CR1.NC, 4, PL3, X2]]
           - paths: [[L1, CR2.NO, 5, CR1.coil, X2]]
+          - paths: [[L1, CR1.NC, 6, PL4, X2]]
         """))
     code, out, _ = run(capsys, "xref", str(path))
     assert code == 0
     rows = {ln.split()[0]: ln for ln in out.splitlines()[1:]}
-    assert "2 changeover" in rows["CR1"] and "OVER: 1 more than provided" in rows["CR1"]
-    assert "2: 2, 3" in rows["CR1"]
+    # Two changeover poles offer two NO and two NC (FORMAT.md): three NC uses are one too many.
+    assert "2 changeover" in rows["CR1"] and "OVER: 1 NC too many" in rows["CR1"]
+    assert "3: 2, 3, 5" in rows["CR1"]
     assert "no coil" in rows["CR2"]
 
 

@@ -380,14 +380,12 @@ def xref_rows(sch: Schematic, coil_kinds: set[str]) -> list[dict[str, str]]:
                 status = "ok"
             else:
                 over = []
-                extra_no, extra_nc = max(0, len(no) - count.no), max(0, len(nc) - count.nc)
-                if count.changeover:
-                    over.append(f"{extra_no + extra_nc - count.changeover} more than provided")
-                else:
-                    if extra_no:
-                        over.append(f"{extra_no} NO too many")
-                    if extra_nc:
-                        over.append(f"{extra_nc} NC too many")
+                no_max, nc_max = count.available()
+                extra_no, extra_nc = max(0, len(no) - no_max), max(0, len(nc) - nc_max)
+                if extra_no:
+                    over.append(f"{extra_no} NO too many")
+                if extra_nc:
+                    over.append(f"{extra_nc} NC too many")
                 status = "OVER: " + ", ".join(over)
         rows.append({
             "coil": tag,
