@@ -127,3 +127,12 @@ def check_case(case: Case, plugins: Iterable[Any] = ()) -> None:
         if "column" in f:
             match = [d for d in found if d.rule == f["rule"] and d.line == int(f["line"]) and d.column == int(f["column"])]
             assert match, f"case {case.id!r}: no {f['rule']} finding at {f['line']}:{f['column']}"
+
+
+def load_schematic(text: str, path: str = "case.ctl.yaml"):
+    """Load schematic ``text`` for a test, failing with its format errors if it does not load."""
+    from .loader import load_text
+
+    result = load_text(text, path)
+    assert result.schematic is not None, "\n".join(f"{d.line}:{d.column}: {d.message}" for d in result.diagnostics)
+    return result.schematic

@@ -15,7 +15,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from ctllint.circuit import Circuit, _block_chain, path_text
-from ctllint.loader import load_text
+from ctllint.testing import load_schematic
 from ctllint.model import Element, Location, Quantity, Rung, Schematic, Supply
 from ctllint.model import Path as ModelPath
 
@@ -26,14 +26,7 @@ supplies:
 
 
 def load(text: str) -> Schematic:
-    result = load_text(text)
-    sch = getattr(result, "schematic", None)
-    diags = getattr(result, "diagnostics", None)
-    if sch is None and isinstance(result, tuple):
-        sch, diags = result
-    assert sch is not None, diags
-    assert not [d for d in diags or () if d.rule == "format"], diags
-    return sch
+    return load_schematic(text, "t.ctl.yaml")
 
 
 def circuit(text: str) -> Circuit:

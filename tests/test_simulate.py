@@ -4,7 +4,7 @@ from __future__ import annotations
 import pytest
 
 from ctllint.circuit import Circuit
-from ctllint.loader import load_text
+from ctllint.testing import load_schematic
 from ctllint.model import Schematic
 from ctllint.simulate import ScenarioEvent, Simulator, StepResult
 
@@ -15,14 +15,7 @@ supplies:
 
 
 def load(text: str) -> Schematic:
-    result = load_text(text)
-    sch = getattr(result, "schematic", None)
-    diags = getattr(result, "diagnostics", None)
-    if sch is None and isinstance(result, tuple):
-        sch, diags = result
-    assert sch is not None, diags
-    assert not [d for d in diags or () if d.rule == "format"], diags
-    return sch
+    return load_schematic(text, "t.ctl.yaml")
 
 
 def sim(text: str) -> Simulator:
