@@ -374,29 +374,16 @@ def _series_edges(edges: list[Edge], q1: tuple[list[str], list[int]], q2: tuple[
     (w1, e1), (w2, e2) = q1, q2
     on_path = set(e1) | set(e2)
     pos = ({w: i + 1 for i, w in enumerate(w1)}, {w: i + 1 for i, w in enumerate(w2)})
-    parent: dict[str, str] = {}
-
-    def find(w: str) -> str:
-        root = w
-        while parent[root] != root:
-            root = parent[root]
-        while parent[w] != root:
-            parent[w], w = root, parent[w]
-        return root
-
     def off(w: str) -> bool:
         return w not in pos[0] and w not in pos[1]
 
+    parts = WireSets()  # the parts of the graph off both paths
     for eid, a, b in edges:
         if eid in on_path or a == b:
             continue
-        for w in (a, b):
-            if off(w):
-                parent.setdefault(w, w)
         if off(a) and off(b):
-            ra, rb = find(a), find(b)
-            if ra != rb:
-                parent[rb] = ra
+            parts.join(a, b)
+    find = parts.find
     inf = float("inf")
     bridges: dict[object, list[float]] = {}  # key -> [lo1, hi1, lo2, hi2]
     for eid, a, b in edges:
