@@ -155,8 +155,8 @@ class _Parts:
         find = sets.find
         self._find = find
         self._parent = sets.parent
-        self.members: dict[str, list[Element]] = {}
-        self.rails_of: dict[str, list[str]] = {}
+        self.members: dict[str, tuple[Element, ...]] = {}  # type: ignore[assignment]  # lists while built
+        self.rails_of: dict[str, tuple[str, ...]] = {}  # type: ignore[assignment]
         for el in elements:
             roots = []
             for w in (el.left, el.right):
@@ -170,6 +170,11 @@ class _Parts:
                 for w in (el.left, el.right):
                     if w in rails and w not in seen:
                         seen.append(w)
+        # Kept while the rules run: tuples (no spare room), and one tuple for
+        # each set of rails, since most parts reach the same one or two.
+        self.members = {r: tuple(m) for r, m in self.members.items()}
+        shared: dict[tuple[str, ...], tuple[str, ...]] = {}
+        self.rails_of = {r: shared.setdefault(t, t) for r, t in ((r, tuple(v)) for r, v in self.rails_of.items())}
 
     def root(self, wire: str) -> str | None:
         return self._find(wire) if wire in self._parent else None
@@ -353,7 +358,7 @@ def _two_paths(edges: list[Edge], h: str, c: str, u: str, v: str, skip: frozense
             eids.append(tag[nxt])  # type: ignore[arg-type]
             x = to[nxt]
             wires.append(names[x // 2])
-        found[start] = (wires, eids)
+        found[start] = (tuple(wires), tuple(eids))  # kept per load while the rules run
     if h not in found or c not in found:
         return None
     return found[h], found[c]
@@ -648,6 +653,18 @@ def _serving_edges(edges: list[Edge], s: str, t: str, u: str, v: str) -> set[int
     return {eid for eid, a, b in edges if a != b and find(eid) in roots}
 
 
+def _compact(ids: set[int]) -> "set[int] | tuple[int, ...] | frozenset[int]":
+    """A set of element indices to keep while the rules run, in less room.
+
+    Small ones (most loads have a handful of elements on their paths) become
+    sorted tuples: ``in``, ``len`` and iteration answer the same, in a third
+    of the memory of a set; larger ones stay hashed.
+    """
+    if len(ids) <= 16:
+        return tuple(sorted(ids))
+    return frozenset(ids)
+
+
 # ---------------------------------------------------------------------------
 # per-load facts
 # ---------------------------------------------------------------------------
@@ -740,7 +757,7 @@ class Circuit:
         out: dict[str, list[Element]] = {}
         for el in self._elements:
             out.setdefault(el.tag, []).append(el)
-        return out
+        return {tag: tuple(els) for tag, els in out.items()}  # type: ignore[misc]
 
     def wire_degree(self, wire: str) -> int:
         """Element ends at ``wire`` (a self-loop counts twice)."""
@@ -794,7 +811,7 @@ class Circuit:
                     continue  # another supply's rail is never passed
                 region.append(el)
         region.sort(key=_index)
-        return region
+        return tuple(region)  # type: ignore[return-value]  # kept per load: no spare room
 
     def _route(self, load: Element) -> _Route | None:
         if load.index in self._routes:
@@ -815,9 +832,9 @@ class Circuit:
         return route
 
     @staticmethod
-    def _assemble(load: Element, paths) -> list[int]:
+    def _assemble(load: Element, paths) -> tuple[int, ...]:
         (_, from_hot), (_, from_common) = paths
-        return list(from_hot) + [load.index] + list(reversed(from_common))
+        return (*from_hot, load.index, *reversed(from_common))
 
     def _serve_set(self, load: Element) -> set[int]:
         route = self._route(load)
@@ -826,7 +843,7 @@ class Circuit:
         if route._serve is None:
             s = route.supply
             found = _serving_edges(route.edges, s.hot, s.common, load.left, load.right)
-            route._serve = found or set()
+            route._serve = _compact(found or set())
         return route._serve
 
     def _series_set(self, load: Element) -> set[int]:
@@ -834,7 +851,7 @@ class Circuit:
         if route is None or route.paths is None:
             return set()
         if route._series is None:
-            route._series = _series_edges(route.edges, *route.paths)
+            route._series = _compact(_series_edges(route.edges, *route.paths))
         return route._series
 
     # -- energizing paths ------------------------------------------------
@@ -910,7 +927,7 @@ class Circuit:
         for load in self.loads:
             for i in sorted(self._serve_set(load)):
                 out.setdefault(i, []).append(load)
-        return out
+        return {i: tuple(loads) for i, loads in out.items()}  # type: ignore[misc]
 
     @_gc_paused
     def in_series(self, element: Element, load: Element) -> bool:

@@ -296,7 +296,7 @@ class _Source:
         self.at: dict[tuple[int, int], Node] = {}
         self.value_of_key: dict[tuple[int, int], Node] = {}
         self.root: Node | None = None
-        if sch is None or not sch.text_lines:
+        if sch is None or not sch.text:
             return
         try:
             self.root = compose("\n".join(sch.text_lines) + "\n", Limits())

@@ -11,7 +11,7 @@ from typing import Any, Iterable
 from .host import PluginHost, RuleSettings, plugin_error, run_rules
 from .loader import DeviceFileCache, LoadResult, load_file, load_text
 from .model import Diagnostic, Severity
-from .suppress import apply_suppressions
+from .suppress import MARKER, apply_suppressions
 from .yamlsafe import Limits
 
 BUILTIN_CORE_RULES = {"format", "plugin-error", "suppression"}
@@ -60,7 +60,8 @@ class Checker:
         if not sch.device_file:
             diags.extend(run_rules(self.host, sch, self.settings))
         known = set(self.host.rules) | BUILTIN_CORE_RULES
-        diags = apply_suppressions(sch.path, sch.text_lines, diags, known)
+        if MARKER in sch.text:  # the file's lines are split only when it holds a suppression
+            diags = apply_suppressions(sch.path, sch.text_lines, diags, known)
         diags = [d for d in diags if d.rule in BUILTIN_CORE_RULES or d.rule in self.settings.enabled]
         return FileResult(sch.path, sorted(set(diags)), result.used_files)
 

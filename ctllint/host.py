@@ -274,7 +274,7 @@ def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings) ->
     path = schematic.path
     out: list[Diagnostic] = []
     circuit = Circuit(schematic)
-    lines = max(1, len(schematic.text_lines))
+    lines = max(1, schematic.line_count or len(schematic.text_lines))
     cap = MAX_FINDINGS + 10 * (lines + len(schematic.elements))
     with _Deadline(settings.time_limit) as deadline:
         for name in settings.enabled:

@@ -200,20 +200,40 @@ class _Loader:
         self.cache = cache
         self.errors: list[Diagnostic] = []
         self.used: list[str] = []
-        self.lines: list[str] = []
+        self.source = ""  # the file's text
         self.line_count = 0
         # Equal texts built here (wire numbers, tags split from TAG.PART) and
         # equal quantities share one object: a large panel repeats them
         # thousands of times. Quantity is frozen, so sharing is safe.
         self._texts: dict[str, str] = {}
         self._quantities: dict[tuple[str, str], Quantity] = {}
+        self._shapes: dict[tuple[str, ...], tuple[str, ...]] = {}  # field-name tuples shared by devices written alike
+        # State of the sections read entry by entry (device_entry, rung_item).
+        self.sch: Schematic | None = None
+        self.streamed_errors: list[Diagnostic] = []
+        self.device_keys: dict[str, int] = {}  # device tag -> line, for duplicates
+        self.rung_numbers: dict[int, int] = {}  # rung number -> line of its rung
+        self.rung_count = 0
+        self.element_count = 0
+        self.rungs_stopped = False
 
     # -- helpers -------------------------------------------------------
+    def text_lines(self) -> list[str]:
+        """The file's lines, for the rare position past the end (not kept: a large file has many)."""
+        return self.source.splitlines()
+
     def loc(self, node: Node) -> Location:
         line, col = node.line, node.column
         if line > self.line_count:  # an empty value at the very end of the file
-            line, col = within(self.lines, line, col)
+            line, col = within(self.text_lines(), line, col)
         return Location(self.path, line, col)
+
+    def position(self, node: Node) -> tuple[int, int]:
+        """``loc(node)`` as (line, column), for the model's packed positions."""
+        line, col = node.line, node.column
+        if line > self.line_count:
+            line, col = within(self.text_lines(), line, col)
+        return line, col
 
     def error(self, node: Node | Location, message: str) -> None:
         loc = node if isinstance(node, Location) else self.loc(node)
@@ -227,23 +247,29 @@ class _Loader:
         if not isinstance(node, MappingNode):
             self.fail(node, f"{what} must be a mapping (key: value), not {_describe(node)}")
         out = []
-        seen: dict[str, Node] = {}
+        seen: dict[str, int] = {}
         for knode, vnode in node.value:
-            key = scalar_value(knode)
-            if isinstance(key, int) and not isinstance(key, bool):
-                key = str(key)
-            if not isinstance(key, str):
-                self.error(knode, f"key '{knode.value}' in {what} must be text")
-                continue
-            if key == "<<" and knode.plain:
-                self.error(knode, f"'<<' merge keys are not YAML 1.2: write the fields of {what} out, or make the whole value an alias (*name)")
-                continue
-            if key in seen:  # 10 and "10" are the same tag, supply or wire: a duplicate, not an overwrite
-                self.error(knode, f"duplicate key '{knode.value}' in {what} (first at line {seen[key].line})")
-                continue
-            seen[key] = knode
-            out.append((key, knode, vnode))
+            key = self.entry_key(knode, what, seen)
+            if key is not None:
+                out.append((key, knode, vnode))
         return out
+
+    def entry_key(self, knode: ScalarNode, what: str, seen: dict[str, int]) -> str | None:
+        """The text of a mapping key, or None (its error recorded); ``seen`` maps keys read so far to their lines."""
+        key = scalar_value(knode)
+        if isinstance(key, int) and not isinstance(key, bool):
+            key = str(key)
+        if not isinstance(key, str):
+            self.error(knode, f"key '{knode.value}' in {what} must be text")
+            return None
+        if key == "<<" and knode.plain:
+            self.error(knode, f"'<<' merge keys are not YAML 1.2: write the fields of {what} out, or make the whole value an alias (*name)")
+            return None
+        if key in seen:  # 10 and "10" are the same tag, supply or wire: a duplicate, not an overwrite
+            self.error(knode, f"duplicate key '{knode.value}' in {what} (first at line {seen[key]})")
+            return None
+        seen[key] = knode.line
+        return key
 
     def sequence(self, node: Node, what: str) -> list[Node]:
         if not isinstance(node, SequenceNode):
@@ -305,16 +331,23 @@ class _Loader:
 
     # -- the file ------------------------------------------------------
     def load(self, text: str) -> LoadResult:
-        self.lines = text.splitlines()
-        self.line_count = len(self.lines)
+        self.source = text
+        self.line_count = count_lines(text)
+        sch = self.sch = Schematic(path=self.path, loc=Location(self.path, 1, 1), text=text, line_count=self.line_count)
+        # The two large sections are read entry by entry while the file is
+        # parsed (see yamlsafe.compose): the whole file is never a tree in memory.
+        sections = {"devices": (MappingNode, self.device_entry), "rungs": (SequenceNode, self.rung_item)}
         try:
-            root = compose(text, self.limits)
+            root = compose(text, self.limits, sections)
             if root is None or (isinstance(root, ScalarNode) and str(root.tag) == STD + "null" and not root.value):
                 return self._done(None, [format_error(self.path, 1, 1, "file is empty: a schematic needs ctllint, supplies, devices and rungs")])
             check_tree(root, self.limits)
         except YamlProblem as exc:
-            return self._done(None, [format_error(self.path, *within(self.lines, exc.line, exc.column), exc.message)])
-        sch = Schematic(path=self.path, loc=self.loc(root), text_lines=self.lines)
+            return self._done(None, [format_error(self.path, *within(self.text_lines(), exc.line, exc.column), exc.message)])
+        sch.loc = self.loc(root)
+        # Errors of the streamed sections count only once the file is known to
+        # be a schematic of this version (read_top puts them back).
+        self.streamed_errors, self.errors = self.errors, []
         try:
             self.read_top(root, sch)
         except _Stop:
@@ -347,6 +380,7 @@ class _Loader:
         # Only the whole number 1 as written: 1.0, 01 or 0x1 are other values
         if version != FORMAT_VERSION or type(version) is not int or vnode.value.strip() != str(FORMAT_VERSION):
             self.fail(vnode, f"format version '{vnode.value}' is not supported: this ctllint reads version {FORMAT_VERSION}")
+        self.errors.extend(self.streamed_errors)
         device_file = "supplies" not in keys and "rungs" not in keys and "expect" not in keys and "use" not in keys and "devices" in keys
         sch.device_file = device_file
         if not device_file:
@@ -355,13 +389,13 @@ class _Loader:
                     self.error(root, f"missing top-level key '{req}'")
         if "title" in keys:
             self._guard(lambda: setattr(sch, "title", self.text(keys["title"][1], "title")))
-        if "devices" in keys:
+        if "devices" in keys and not _streamed(keys["devices"][1]):
             self._guard(lambda: self.read_devices(keys.pop("devices")[1], sch))
         if "use" in keys:
             self._guard(lambda: self.read_use(keys.pop("use")[1], sch))
         if "supplies" in keys:
             self._guard(lambda: self.read_supplies(keys.pop("supplies")[1], sch))
-        if "rungs" in keys:
+        if "rungs" in keys and not _streamed(keys["rungs"][1]):
             self._guard(lambda: self.read_rungs(keys.pop("rungs")[1], sch))
         if "expect" in keys:
             self._guard(lambda: self.read_expect(keys.pop("expect")[1], sch))
@@ -376,17 +410,28 @@ class _Loader:
 
     # -- devices -------------------------------------------------------
     def read_devices(self, node: Node, sch: Schematic) -> None:
+        """The ``devices`` section when it was not streamed (not a mapping, or an alias)."""
         if isinstance(node, ScalarNode) and scalar_value(node) is None:
             return
-        for tag, knode, vnode in _consume(self.mapping(node, "devices"), node):
-            if not TAG_RE.match(tag):
-                self.error(knode, f"device tag '{tag}' holds a dot or a space")
-                continue
-            try:
-                dev = self.read_device(tag, knode, vnode)
-            except _Stop:
-                continue
-            sch.devices[tag] = dev
+        if not isinstance(node, MappingNode):
+            self.fail(node, f"devices must be a mapping (key: value), not {_describe(node)}")
+        for knode, vnode in _consume(list(node.value), node):
+            self.device_entry(knode, vnode)
+
+    def device_entry(self, knode: ScalarNode | None, vnode: Node) -> None:
+        """One entry of ``devices``, read as soon as the parser has it."""
+        tag = self.entry_key(knode, "devices", self.device_keys)
+        if tag is None:
+            return
+        tag = self._texts.setdefault(tag, tag)  # one string for the tag and every element naming it
+        if not TAG_RE.match(tag):
+            self.error(knode, f"device tag '{tag}' holds a dot or a space")
+            return
+        try:
+            dev = self.read_device(tag, knode, vnode)
+        except _Stop:
+            return
+        self.sch.devices[tag] = dev
 
     def read_device(self, tag: str, knode: Node, vnode: Node) -> Device:
         entries = self.mapping(vnode, f"device {tag}")
@@ -399,8 +444,9 @@ class _Loader:
         if kind is None:
             hint = _closest(kind_name, tuple(self.kinds.names()))
             self.fail(kind_node, f"unknown device kind '{kind_name}' for {tag}" + (f" (did you mean '{hint}'?)" if hint else ""))
-        dev = Device(tag=tag, kind=kind_name, loc=self.loc(knode), origin=self.path)
-        dev.field_locs["kind"] = self.loc(kind_node)
+        dev = Device(tag, kind_name, self.loc(knode), origin=self.path)
+        names = ["kind"]  # where each field's value stands, packed into the device at the end
+        positions = [(kind_node.line, kind_node.column)]
         allowed = ("kind", *kind.fields)
         ok = True
         for name, kn, vn in entries:
@@ -412,11 +458,13 @@ class _Loader:
                 ok = False
                 continue
             try:
-                dev.fields[name] = self.read_field(vn, spec, f"{tag}.{name}" if False else f"{name} of {tag}", kind)
-                dev.field_locs[name] = self.loc(vn)
+                dev.fields[name] = self.read_field(vn, spec, f"{name} of {tag}", kind)
+                names.append(name)
+                positions.append(self.position(vn))
                 if spec.type == K.TAGS and isinstance(vn, SequenceNode):
                     for i, item in enumerate(vn.value):  # each tag of a list, e.g. fuses.1
-                        dev.field_locs[f"{name}.{i}"] = self.loc(item)
+                        names.append(f"{name}.{i}")
+                        positions.append(self.position(item))
             except _Stop:
                 ok = False
         for req in kind.required:
@@ -430,6 +478,8 @@ class _Loader:
                 dev.fields[name] = spec.default
         if not ok:
             raise _Stop
+        shape = tuple(names)
+        dev.set_positions(self._shapes.setdefault(shape, shape), positions)
         return dev
 
     def read_field(self, node: Node, spec: K.FieldSpec, what: str, kind: DeviceKind) -> Any:
@@ -676,74 +726,85 @@ class _Loader:
 
     # -- rungs ---------------------------------------------------------
     def read_rungs(self, node: Node, sch: Schematic) -> None:
+        """The ``rungs`` section when it was not streamed (not a list, or an alias)."""
         if isinstance(node, ScalarNode) and scalar_value(node) is None:
             return
-        numbers: dict[int, Location] = {}
-        counter = 0
-        for i, rnode in enumerate(_consume(self.sequence(node, "rungs"), node)):
-            try:
-                entries = self.mapping(rnode, f"rung {i + 1}")
-            except _Stop:
+        for rnode in _consume(self.sequence(node, "rungs"), node):
+            self.rung_item(None, rnode)
+
+    def rung_item(self, _key: None, rnode: Node) -> None:
+        """One rung, read as soon as the parser has it."""
+        if self.rungs_stopped:
+            return
+        i = self.rung_count
+        self.rung_count += 1
+        try:
+            entries = self.mapping(rnode, f"rung {i + 1}")
+        except _Stop:
+            return
+        errors_before = len(self.errors)
+        keys = {k: (kn, vn) for k, kn, vn in entries}
+        rung = Rung(index=i, number=i + 1, loc=self.loc(rnode))
+        for key, kn, vn in entries:
+            if key not in RUNG_KEYS:
+                self.unknown_key(kn, key, f"rung {i + 1}", RUNG_KEYS)
                 continue
-            keys = {k: (kn, vn) for k, kn, vn in entries}
-            rung = Rung(index=i, number=i + 1, loc=self.loc(rnode))
-            for key, kn, vn in entries:
-                if key not in RUNG_KEYS:
-                    self.unknown_key(kn, key, f"rung {i + 1}", RUNG_KEYS)
-                    continue
-                try:
-                    if key == "title":
-                        rung.title = self.text(vn, "rung title")
-                    elif key == "note":
-                        rung.note = self.text(vn, "rung note")
-                    elif key == "jog":
-                        rung.jog = self.boolean(vn, "jog")
-                    elif key == "restart":
-                        rung.restart = self.text(vn, "restart", ("automatic",))
-                    elif key == "number":
-                        num = self.scalar(vn, "rung number")
-                        if isinstance(num, bool) or not isinstance(num, int) or num < 0:
-                            self.fail(vn, f"rung number must be a whole number, not '{vn.value}'")
-                        rung.number = num
-                except _Stop:
-                    pass
-            if rung.number in numbers:
-                where = keys["number"][1] if "number" in keys else rnode
-                self.error(where, f"rung number {rung.number} is already used by the rung at line {numbers[rung.number].line}")
-            numbers[rung.number] = rung.loc
-            if "paths" not in keys:
-                self.error(rnode, f"rung {rung.number} has no 'paths'")
-            else:
-                try:
-                    for pnode in self.sequence(keys["paths"][1], "paths"):
-                        try:
-                            path, counter = self.read_path(pnode, rung, counter)
-                            rung.paths.append(path)
-                        except _Stop:
-                            pass
-                except _Stop:
-                    pass
-                if not rung.paths and not any(e.path == self.path and e.line >= rung.loc.line for e in self.errors):
-                    self.error(keys["paths"][1], f"rung {rung.number} has no paths")
-            sch.rungs.append(rung)
-            if counter > self.limits.max_elements:
-                self.fail(rnode, f"more than {self.limits.max_elements} elements; limit max_elements")
+            try:
+                if key == "title":
+                    rung.title = self.text(vn, "rung title")
+                elif key == "note":
+                    rung.note = self.text(vn, "rung note")
+                elif key == "jog":
+                    rung.jog = self.boolean(vn, "jog")
+                elif key == "restart":
+                    rung.restart = self.text(vn, "restart", ("automatic",))
+                elif key == "number":
+                    num = self.scalar(vn, "rung number")
+                    if isinstance(num, bool) or not isinstance(num, int) or num < 0:
+                        self.fail(vn, f"rung number must be a whole number, not '{vn.value}'")
+                    rung.number = num
+            except _Stop:
+                pass
+        numbers = self.rung_numbers
+        if rung.number in numbers:
+            where = keys["number"][1] if "number" in keys else rnode
+            self.error(where, f"rung number {rung.number} is already used by the rung at line {numbers[rung.number]}")
+        numbers[rung.number] = rung.loc.line
+        if "paths" not in keys:
+            self.error(rnode, f"rung {rung.number} has no 'paths'")
+        else:
+            try:
+                for pnode in self.sequence(keys["paths"][1], "paths"):
+                    try:
+                        path, self.element_count = self.read_path(pnode, rung, self.element_count)
+                        rung.paths.append(path)
+                    except _Stop:
+                        pass
+            except _Stop:
+                pass
+            if not rung.paths and len(self.errors) == errors_before:  # not when its paths were refused
+                self.error(keys["paths"][1], f"rung {rung.number} has no paths")
+        self.sch.rungs.append(rung)
 
     def read_path(self, node: Node, rung: Rung, counter: int) -> tuple[Path, int]:
         items = self.sequence(node, "a path")
         if len(items) < 3 or len(items) % 2 == 0:
             self.fail(node, "a path alternates wires and elements, beginning and ending with a wire: [wire, element, wire, ...]")
+        if self.rungs_stopped:
+            raise _Stop
         if counter + len(items) // 2 > self.limits.max_elements:  # refused before the elements are built
+            self.rungs_stopped = True  # said once; the rest of the rungs are not read
             self.fail(node, f"more than {self.limits.max_elements} elements; limit max_elements")
         wires: list[str] = []
-        wire_locs: list[Location] = []
-        refs: list[tuple[str, str | None, str, Node]] = []
+        wire_pos: list[tuple[int, int]] = []
+        refs: list[tuple[str, str | None, Node]] = []
         ok = True
+        share = self._texts.setdefault
         for j, item in enumerate(items):
             try:
                 if j % 2 == 0:
                     wires.append(self.wire(item))
-                    wire_locs.append(self.loc(item))
+                    wire_pos.append(self.position(item))
                 else:
                     value = self.scalar(item, "an element")
                     if not isinstance(value, str):
@@ -752,17 +813,17 @@ class _Loader:
                     if not m:
                         self.fail(item, f"'{value}' is not an element reference (TAG or TAG.PART)")
                     tag, part = m.group("tag", "part")
-                    share = self._texts.setdefault
-                    refs.append((share(tag, tag), part and share(part, part), value, item))
+                    refs.append((share(tag, tag), part and share(part, part), item))
             except _Stop:
                 ok = False
         if not ok:
             raise _Stop
         elements = []
-        for j, (tag, part, text, item) in enumerate(refs):
-            elements.append(Element(index=counter, tag=tag, part=part, text=text, loc=self.loc(item), rung=rung.index, left=wires[j], right=wires[j + 1]))
+        located, path, index = Element.located, self.path, rung.index
+        for j, (tag, part, item) in enumerate(refs):
+            elements.append(located(counter, tag, part, path, *self.position(item), index, wires[j], wires[j + 1]))
             counter += 1
-        return Path(wires=wires, wire_locs=wire_locs, elements=elements, loc=self.loc(node)), counter
+        return Path.packed(wires, wire_pos, elements, self.loc(node)), counter
 
     # -- expect ----------------------------------------------------------
     def read_expect(self, node: Node, sch: Schematic) -> None:
@@ -912,6 +973,21 @@ def _consume(items: list, node: Node) -> Iterator:
     items.reverse()
     while items:
         yield items.pop()
+
+
+# Characters other than "\n" that str.splitlines takes for a line break.
+_OTHER_BREAKS = re.compile("[\r\x0b\x0c\x1c\x1d\x1e\x85\u2028\u2029]")
+
+
+def count_lines(text: str) -> int:
+    """``len(text.splitlines())`` without building the list (for the usual file, broken by "\n" only)."""
+    if _OTHER_BREAKS.search(text):
+        return len(text.splitlines())
+    return text.count("\n") + (1 if text and not text.endswith("\n") else 0)
+
+
+def _streamed(node: Node) -> bool:
+    return isinstance(node, (MappingNode, SequenceNode)) and node.streamed
 
 
 def _display_path(base: str, rel: str) -> str:

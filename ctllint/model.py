@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from enum import IntEnum
+import struct
 from typing import Any
 
 
@@ -110,67 +111,162 @@ class ContactCount:
         return no_used <= no_max and nc_used <= nc_max
 
 
-@dataclass(slots=True)
 class Device:
     """One entry of ``devices``: its tag, kind and parsed fields.
 
     ``fields`` maps field names to parsed values (Quantity, ContactRating,
-    str, bool, numbers, lists); ``field_locs`` maps the same names to the
+    str, bool, numbers, lists); ``at(name)`` and ``field_locs`` give the
     position of each value. ``origin`` is the file that defines the device.
+
+    A large panel has thousands of devices, so positions are kept packed
+    (two 32-bit numbers per field in one bytes object, the names in a tuple
+    shared by devices written alike) and a Location is made only when asked
+    for.
     """
 
-    tag: str
-    kind: str
-    loc: Location
-    fields: dict[str, Any] = field(default_factory=dict)
-    field_locs: dict[str, Location] = field(default_factory=dict)
-    origin: str = ""
+    __slots__ = ("tag", "kind", "fields", "origin", "_path", "_line", "_column", "_names", "_pos")
+
+    def __init__(self, tag: str, kind: str, loc: "Location", fields: dict[str, Any] | None = None,
+                 field_locs: dict[str, "Location"] | None = None, origin: str = ""):
+        self.tag = tag
+        self.kind = kind
+        self.fields: dict[str, Any] = {} if fields is None else fields
+        self.origin = origin
+        self._path, self._line, self._column = loc.path, loc.line, loc.column
+        self._names: tuple[str, ...] = ()
+        self._pos = b""
+        if field_locs:
+            self.set_positions(tuple(field_locs), [(at.line, at.column) for at in field_locs.values()])
+
+    @property
+    def loc(self) -> "Location":
+        """Position of the device's tag."""
+        return Location(self._path, self._line, self._column)
+
+    @loc.setter
+    def loc(self, loc: "Location") -> None:
+        self._path, self._line, self._column = loc.path, loc.line, loc.column
+
+    def set_positions(self, names: tuple[str, ...], positions: list[tuple[int, int]]) -> None:
+        """Set where each field's value stands: ``names[i]`` at ``positions[i]`` (line, column)."""
+        self._names = names
+        self._pos = _pack(positions)
+
+    @property
+    def field_locs(self) -> dict[str, "Location"]:
+        """Position of every field's value written in the file (a new dict on each call)."""
+        path = self._path
+        return {name: Location(path, *_unpack(self._pos, i)) for i, name in enumerate(self._names)}
 
     def get(self, name: str, default: Any = None) -> Any:
         return self.fields.get(name, default)
 
-    def at(self, name: str) -> Location:
+    def at(self, name: str) -> "Location":
         """Position of field ``name``'s value, or of the tag when absent."""
-        return self.field_locs.get(name, self.loc)
+        try:
+            i = self._names.index(name)
+        except ValueError:
+            return self.loc
+        return Location(self._path, *_unpack(self._pos, i))
+
+    def __repr__(self) -> str:
+        return f"Device(tag={self.tag!r}, kind={self.kind!r}, loc={self.loc!r}, fields={self.fields!r})"
 
 
-@dataclass(eq=False, slots=True)
+_POS = struct.Struct("<II")
+
+
+def _pack(positions: list[tuple[int, int]]) -> bytes:
+    return b"".join(_POS.pack(line, column) for line, column in positions)
+
+
+def _unpack(packed: bytes, i: int) -> tuple[int, int]:
+    return _POS.unpack_from(packed, 8 * i)
+
+
 class Element:
     """One element of a path: ``TAG.PART`` or a bare ``TAG``.
 
     It joins wire ``left`` to wire ``right``. ``index`` is its order in the
     file (0-based, unique), ``rung`` the index of its rung in ``rungs``.
     ``role`` is filled in by the loader from the device kind: "load",
-    "contact", "output", "conductor" or "" when unknown.
+    "contact", "output", "conductor" or "" when unknown. ``text`` is the
+    reference as written; ``line`` and ``column`` its position, ``loc`` the
+    same as a Location (made when asked for: a panel has many elements).
     """
 
-    index: int
-    tag: str
-    part: str | None
-    text: str
-    loc: Location
-    rung: int
-    left: str
-    right: str
-    role: str = ""
-    inductive: bool = False
+    __slots__ = ("index", "tag", "part", "_path", "line", "column", "rung", "left", "right", "role", "inductive")
+
+    def __init__(self, index: int, tag: str, part: str | None, text: str | None, loc: "Location", rung: int,
+                 left: str, right: str, role: str = "", inductive: bool = False):
+        if text is not None and text != (tag if part is None else f"{tag}.{part}"):
+            raise ValueError(f"element text {text!r} is not TAG or TAG.PART of {tag!r} and {part!r}")
+        self.index = index
+        self.tag = tag
+        self.part = part
+        self._path, self.line, self.column = loc.path, loc.line, loc.column
+        self.rung = rung
+        self.left = left
+        self.right = right
+        self.role = role
+        self.inductive = inductive
+
+    @classmethod
+    def located(cls, index: int, tag: str, part: str | None, path: str, line: int, column: int, rung: int, left: str, right: str) -> "Element":
+        """An element at ``line``, ``column`` of ``path`` (the loader's way: no Location made)."""
+        el = cls.__new__(cls)
+        el.index, el.tag, el.part, el._path, el.line, el.column = index, tag, part, path, line, column
+        el.rung, el.left, el.right, el.role, el.inductive = rung, left, right, "", False
+        return el
+
+    @property
+    def text(self) -> str:
+        return self.tag if self.part is None else f"{self.tag}.{self.part}"
 
     @property
     def ref(self) -> str:
         return self.text
 
+    @property
+    def loc(self) -> "Location":
+        return Location(self._path, self.line, self.column)
+
+    @loc.setter
+    def loc(self, loc: "Location") -> None:
+        self._path, self.line, self.column = loc.path, loc.line, loc.column
+
     def __repr__(self) -> str:
-        return f"<Element {self.text} {self.left}-{self.right} @{self.loc.line}>"
+        return f"<Element {self.text} {self.left}-{self.right} @{self.line}>"
 
 
-@dataclass(slots=True)
 class Path:
-    """One path of a rung: wires alternating with elements."""
+    """One path of a rung: wires alternating with elements.
 
-    wires: list[str]
-    wire_locs: list[Location]
-    elements: list[Element]
-    loc: Location
+    ``wire_locs`` gives each wire's position (made when asked for; kept packed).
+    """
+
+    __slots__ = ("wires", "elements", "loc", "_wire_pos")
+
+    def __init__(self, wires: list[str], wire_locs: list["Location"], elements: list[Element], loc: "Location"):
+        self.wires = wires
+        self.elements = elements
+        self.loc = loc
+        self._wire_pos = _pack([(at.line, at.column) for at in wire_locs])
+
+    @classmethod
+    def packed(cls, wires: list[str], wire_positions: list[tuple[int, int]], elements: list[Element], loc: "Location") -> "Path":
+        """A path from wire positions as (line, column) pairs, in ``loc``'s file."""
+        path = cls(wires, [], elements, loc)
+        path._wire_pos = _pack(wire_positions)
+        return path
+
+    @property
+    def wire_locs(self) -> list["Location"]:
+        where = self.loc.path
+        return [Location(where, *_unpack(self._wire_pos, i)) for i in range(len(self._wire_pos) // 8)]
+
+    def __repr__(self) -> str:
+        return f"Path({self.wires!r}, {self.elements!r})"
 
 
 @dataclass(slots=True)
@@ -246,7 +342,8 @@ class Schematic:
     expect: list[Scenario] = field(default_factory=list)
     uses: list[str] = field(default_factory=list)  # resolved paths of used files
     device_file: bool = False  # holds only devices (a shared device file)
-    text_lines: list[str] = field(default_factory=list)
+    text: str = field(default="", repr=False)  # the file as read
+    line_count: int = 0  # lines in ``text``, as ``str.splitlines`` counts them
     _elements: tuple[int, list[Element]] | None = field(default=None, repr=False, compare=False)
 
     @property
@@ -256,6 +353,11 @@ class Schematic:
         if self._elements is None or self._elements[0] != count:
             self._elements = (count, [e for r in self.rungs for p in r.paths for e in p.elements])
         return self._elements[1]
+
+    @property
+    def text_lines(self) -> list[str]:
+        """The file's lines (built on each call from ``text``: a large file's lines are not kept)."""
+        return self.text.splitlines()
 
     def supply_of_rail(self, wire: str) -> Supply | None:
         for s in self.supplies.values():

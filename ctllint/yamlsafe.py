@@ -15,7 +15,7 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass
-from typing import Any
+from typing import Any, Callable
 
 from ruamel.yaml import events as ev
 from ruamel.yaml.error import MarkedYAMLError, YAMLError
@@ -81,23 +81,25 @@ class ScalarNode(Node):
 
 
 class SequenceNode(Node):
-    __slots__ = ("value", "size", "anchored")
+    __slots__ = ("value", "size", "anchored", "streamed")
 
     def __init__(self, line: int, column: int, tag: str | None):
         super().__init__(line, column, tag)
         self.value: list[Node] = []
         self.size = 1  # values below it once aliases are expanded
         self.anchored = False  # an alias may name it, so it can have more than one parent
+        self.streamed = False  # its items went to a section reader as they were read (see compose)
 
 
 class MappingNode(Node):
-    __slots__ = ("value", "size", "anchored")
+    __slots__ = ("value", "size", "anchored", "streamed")
 
     def __init__(self, line: int, column: int, tag: str | None):
         super().__init__(line, column, tag)
         self.value: list[tuple[Node, Node]] = []
         self.size = 1  # values below it once aliases are expanded
         self.anchored = False  # an alias may name it, so it can have more than one parent
+        self.streamed = False  # its entries went to a section reader as they were read (see compose)
 
 
 class YamlProblem(Exception):
@@ -123,10 +125,25 @@ def _event_source(text: str):
     return iter(YAML(typ="safe", pure=True).parse(text)).__next__  # pragma: no cover
 
 
-def compose(text: str, limits: Limits) -> Node | None:
+# A section reader: called with (key node, value node) for each entry of a
+# streamed mapping, or (None, item node) for each item of a streamed list.
+SectionReader = Callable[["ScalarNode | None", "Node"], None]
+
+
+def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionReader]] | None = None) -> Node | None:
     """Build the first document of ``text`` as located nodes, or raise YamlProblem.
 
     Returns None for a document with no content. A second document is an error.
+
+    ``sections`` streams the large parts of a file: when the document is a
+    mapping and the value of its top-level key ``name`` is a node of the
+    given class (MappingNode or SequenceNode) with no anchor, each entry of
+    that value goes to the reader as soon as it is complete and is not kept:
+    the value is left empty, marked ``streamed``. The reader sees the file's
+    entries in file order, checked as every node is (tags, limits, duplicate
+    keys); only one entry's nodes are alive at a time, so a large file is
+    never held as a whole tree. A YAML error later in the file still raises
+    YamlProblem: the caller discards what its readers built.
     """
     stack: list[Node] = []
     keys: list[dict] = []         # per open mapping: resolved key -> key node
@@ -152,7 +169,10 @@ def compose(text: str, limits: Limits) -> Node | None:
         if parent.size > limits.max_nodes:
             raise YamlProblem(node.line, node.column, f"document expands to more than {limits.max_nodes} values (aliases included); limit max_nodes")
         if isinstance(parent, SequenceNode):
-            parent.value.append(node)
+            if parent.streamed:
+                readers[id(parent)](None, node)
+            else:
+                parent.value.append(node)
             return
         key = pending[-1]
         if key is None:
@@ -164,17 +184,21 @@ def compose(text: str, limits: Limits) -> Node | None:
             hkey = resolved if isinstance(resolved, str) else (type(resolved).__name__, resolved)
             seen = keys[-1]
             if hkey in seen:
-                raise YamlProblem(node.line, node.column, f"duplicate key '{node.value}' (first at line {seen[hkey].line})")
-            seen[hkey] = node
+                raise YamlProblem(node.line, node.column, f"duplicate key '{node.value}' (first at line {seen[hkey]})")
+            seen[hkey] = node.line  # the line only: a large mapping's key nodes need not stay alive
             pending[-1] = node
         else:
-            parent.value.append((key, node))
             pending[-1] = None
+            if parent.streamed:
+                readers[id(parent)](key, node)
+            else:
+                parent.value.append((key, node))
 
     # Nodes on one line share one int for it, and equal short texts share one
     # string: most of a large file's scalars are short and repeated, and every
     # Location and model field built from them keeps them alive.
     shared: dict[str, str] = {}
+    readers: dict[int, SectionReader] = {}  # id of a streamed section node -> its reader
     mark_line, line = -1, 0  # the parser's 0-based line of the last node, and our 1-based int for it
 
     next_event = _event_source(text)
@@ -214,6 +238,13 @@ def compose(text: str, limits: Limits) -> Node | None:
                 if event.anchor:
                     anchors[event.anchor] = node
                     node.anchored = True
+                elif sections and len(stack) == 1 and pending and pending[0] is not None and stack[0].__class__ is MappingNode:
+                    # The value of a top-level key: streamed when it is a section asked for.
+                    name = scalar_value(pending[0])
+                    wanted = sections.get(name) if isinstance(name, str) else None
+                    if wanted is not None and node.__class__ is wanted[0]:
+                        node.streamed = True
+                        readers[id(node)] = wanted[1]
                 stack.append(node)
                 open_ids.add(id(node))
                 if cls is MappingStartEvent:
