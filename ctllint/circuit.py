@@ -60,8 +60,9 @@ reported by other rules) are left out of every analysis, as if not drawn.
 from __future__ import annotations
 
 import functools
-import itertools
 import gc
+import itertools
+from array import array
 from collections import deque
 from functools import cached_property
 from typing import TYPE_CHECKING, Callable, Iterable, TypeVar
@@ -195,6 +196,99 @@ def _adjacency(edges: Iterable[Edge]) -> dict[str, list[tuple[str, int]]]:
         adj.setdefault(a, []).append((b, eid))
         adj.setdefault(b, []).append((a, eid))
     return adj
+
+
+def biconnected_blocks(edges: Iterable[Edge]) -> list[list[int]]:
+    """The biconnected blocks of a graph given as (id, wire, wire) edges: the edge ids of each.
+
+    Two edges are in one block exactly when some simple cycle passes both;
+    a bridge is a block of its own, parallel edges share a block, self-loops
+    are in none. Iterative Tarjan, linear in the edges, over wires numbered
+    0, 1, 2, ... and flat arrays of numbers: the rules use it instead of
+    building a graph object of the whole circuit (on a large panel that
+    graph was the largest thing a rule held).
+    """
+    number: dict[str, int] = {}
+    ids: list[int] = []
+    ends = array("l")  # ends[2k], ends[2k+1]: the wires of the k-th edge
+    for eid, a, b in edges:
+        if a == b:
+            continue  # a self-loop is on no cycle with another edge
+        ids.append(eid)
+        ends.append(number.setdefault(a, len(number)))
+        ends.append(number.setdefault(b, len(number)))
+    n = len(number)
+    del number
+    # Adjacency as one array: the edge slots of vertex v are order[first[v]:first[v + 1]].
+    first = array("l", bytes(8 * (n + 1)))
+    for v in ends:
+        first[v + 1] += 1
+    for v in range(n):
+        first[v + 1] += first[v]
+    fill = array("l", first)
+    order = array("l", bytes(8 * len(ends)))
+    for slot, v in enumerate(ends):
+        order[fill[v]] = slot  # slot = 2k or 2k+1: edge k, seen from one of its ends
+        fill[v] += 1
+    del fill
+    unseen = -1
+    disc = array("l", [unseen]) * n
+    low = array("l", bytes(8 * n))
+    via = array("l", [unseen]) * n  # the edge a vertex was reached by
+    blocks: list[list[int]] = []
+    estack: list[int] = []
+    clock = 0
+    for root in range(n):
+        if disc[root] != unseen:
+            continue
+        disc[root] = low[root] = clock
+        clock += 1
+        stack = [root]
+        cursor = [first[root]]  # the next adjacency slot to look at, per stack entry
+        while stack:
+            v = stack[-1]
+            i = cursor[-1]
+            end = first[v + 1]
+            descended = False
+            while i < end:
+                slot = order[i]
+                i += 1
+                k = slot >> 1
+                if k == via[v]:
+                    continue
+                w = ends[slot ^ 1]
+                if disc[w] == unseen:
+                    disc[w] = low[w] = clock
+                    clock += 1
+                    via[w] = k
+                    estack.append(k)
+                    cursor[-1] = i
+                    stack.append(w)
+                    cursor.append(first[w])
+                    descended = True
+                    break
+                if disc[w] < disc[v]:  # back edge to an ancestor (or a parallel edge)
+                    if disc[w] < low[v]:
+                        low[v] = disc[w]
+                    estack.append(k)
+            if descended:
+                continue
+            stack.pop()
+            cursor.pop()
+            if not stack:
+                break
+            p = stack[-1]
+            if low[v] < low[p]:
+                low[p] = low[v]
+            if low[v] >= disc[p]:
+                block: list[int] = []
+                while True:
+                    k = estack.pop()
+                    block.append(ids[k])
+                    if k == via[v]:
+                        break
+                blocks.append(block)
+    return blocks
 
 
 def _block_chain(edges: list[Edge], s: str, t: str) -> list[tuple[list[int], str, str]] | None:
@@ -691,6 +785,16 @@ class _Route:
     def edges(self) -> list[Edge]:
         return _edges(self.elements)
 
+    def settle(self) -> None:
+        """Let the two paths go once the one path and the series set are known: nothing else reads them."""
+        if self.path is not None and self._series is not None:
+            self.paths = _SETTLED
+
+
+# Stands for a route's two paths once they are no longer needed: not None, so
+# "the load has an energizing path" still reads the same.
+_SETTLED = ((), ())
+
 
 def _edges(elements: list[Element]) -> list[Edge]:
     return [(el.index, el.left, el.right) for el in elements]
@@ -852,6 +956,7 @@ class Circuit:
             return set()
         if route._series is None:
             route._series = _compact(_series_edges(route.edges, *route.paths))
+            route.settle()
         return route._series
 
     # -- energizing paths ------------------------------------------------
@@ -886,6 +991,7 @@ class Circuit:
             return None
         if route.path is None:
             route.path = self._assemble(load, route.paths)
+            route.settle()
         # Fast answers from what is already known of this load, checked from
         # the smaller side so a large cut costs no more than a small one.
         series = self._series_set(load)

@@ -207,7 +207,8 @@ class _Loader:
         # thousands of times. Quantity is frozen, so sharing is safe.
         self._texts: dict[str, str] = {}
         self._quantities: dict[tuple[str, str], Quantity] = {}
-        self._shapes: dict[tuple[str, ...], tuple[str, ...]] = {}  # field-name tuples shared by devices written alike
+        self._shapes: dict[tuple[str, ...], tuple[str, ...]] = {}
+        self._frozen: dict[Any, Any] = {}  # equal ratings share one object (they are frozen)  # field-name tuples shared by devices written alike
         # State of the sections read entry by entry (device_entry, rung_item).
         self.sch: Schematic | None = None
         self.streamed_errors: list[Diagnostic] = []
@@ -324,6 +325,10 @@ class _Loader:
             self.fail(node, f"{what}: {exc}")
         self._quantities[(value, dimension)] = quantity
         return quantity
+
+    def shared(self, value: Any) -> Any:
+        """One object for equal frozen values (ratings repeat on every device of a kind)."""
+        return self._frozen.setdefault(value, value)
 
     def unknown_key(self, knode: Node, key: str, where: str, allowed: tuple[str, ...]) -> None:
         hint = _closest(key, allowed)
@@ -531,9 +536,9 @@ class _Loader:
         if t == K.CONTACTS:
             return self.read_contacts(node, what)
         if t == K.RATING:
-            return self.read_rating(node, what)
+            return self.shared(self.read_rating(node, what))
         if t == K.POWER_RATING:
-            return self.read_power_rating(node, what)
+            return self.shared(self.read_power_rating(node, what))
         self.fail(node, f"{what}: field type '{t}' is not known to this ctllint")
 
     def read_contacts(self, node: Node, what: str) -> ContactCount:

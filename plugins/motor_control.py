@@ -68,13 +68,9 @@ from __future__ import annotations
 
 from typing import Iterable, Iterator
 
-from typing import TYPE_CHECKING as _TYPE_CHECKING
-
-if _TYPE_CHECKING:  # pragma: no cover
-    import networkx as nx
-
 from ctllint import hookimpl
 from ctllint.api import CheckContext, Example, Finding, Option, Rule
+from ctllint.circuit import biconnected_blocks
 from ctllint.kinds import BUILTIN_KINDS, LOAD
 from ctllint.model import Element, Severity
 
@@ -305,23 +301,11 @@ def _block_of(ctx: CheckContext) -> dict[int, int]:
     no load, which is what "one contact bypasses the other" means on a
     drawing. Parallel elements between the same two wires are one loop.
     """
-    graph = _nx().Graph()
-    for el in ctx.schematic.elements:
-        if el.role and el.role != LOAD and el.left != el.right:
-            graph.add_edge(el.left, el.right)
-    # Wire pairs as sorted tuples (a quarter of a frozenset's size), and the
-    # graph let go before the answer is built: on a large panel both are
-    # the size of the circuit, and only the answer is needed afterwards.
-    pair_block: dict[tuple[str, str], int] = {}
-    for number, edges in enumerate(_nx().biconnected_component_edges(graph)):
-        for u, v in edges:
-            pair_block[(u, v) if u <= v else (v, u)] = number
-    del graph
-    out = {}
-    for el in ctx.schematic.elements:
-        if el.role and el.role != LOAD and el.left != el.right:
-            a, b = el.left, el.right
-            out[el.index] = pair_block[(a, b) if a <= b else (b, a)]
+    edges = [(el.index, el.left, el.right) for el in ctx.schematic.elements if el.role and el.role != LOAD and el.left != el.right]
+    out: dict[int, int] = {}
+    for number, block in enumerate(biconnected_blocks(edges)):
+        for index in block:
+            out[index] = number
     return out
 
 
@@ -875,9 +859,3 @@ RULES = [
 def ctllint_rules():
     return RULES
 
-
-def _nx():
-    """networkx, imported when a graph is first needed: a run answered from the cache never loads it."""
-    import networkx
-
-    return networkx

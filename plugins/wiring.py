@@ -27,7 +27,7 @@ if _TYPE_CHECKING:  # pragma: no cover
 from ctllint import hookimpl
 from ctllint import kinds as K
 from ctllint.api import CheckContext, Example, Finding, Rule
-from ctllint.circuit import path_text
+from ctllint.circuit import biconnected_blocks, path_text
 from ctllint.model import Device, Element, Schematic, Severity, Supply
 from ctllint.quantities import format_si
 from ctllint.tables import COIL_MAX_FRACTION, COIL_MIN_FRACTION, coil_voltage_ok
@@ -634,14 +634,23 @@ class _SupplySides:
         self.base = base
         self.elements = base.elements
         self._hot_removed = {r for r in rails if r != supply.hot}
-        self.common_graph = base.without({r for r in rails if r != supply.common})
-        self._common_component = _component_map(self.common_graph)
+        self._common_removed = {r for r in rails if r != supply.common}
+        # Components by union-find and blocks by ``biconnected_blocks``: no
+        # graph object of the circuit is built unless a load is bypassed on paper.
+        self._common_component = _component_map_of_pairs(base, self._common_removed)
+        self._common_graph: nx.Graph | None = None
         # The hot side needs only which part each wire is in (found without a
         # graph); its graph is built only for a load bypassed on paper, so that
         # one graph, not two, is alive on a large panel.
         self._hot_component = _component_map_of_pairs(base, self._hot_removed)
         self._hot_graph: nx.Graph | None = None
         self._tree = None
+
+    @property
+    def common_graph(self) -> nx.Graph:
+        if self._common_graph is None:
+            self._common_graph = self.base.without(self._common_removed)
+        return self._common_graph
 
     @property
     def hot_graph(self) -> nx.Graph:
@@ -685,7 +694,9 @@ class _SupplySides:
 
     def _on_paths_to_common(self, wire: str) -> set[_Pair]:
         if self._tree is None:
-            self._tree = _TreeToRoot(self.common_graph, self.supply.common)
+            removed = self._common_removed
+            pairs = [p for p in self.elements if p[0] not in removed and p[1] not in removed]
+            self._tree = _TreeToRoot(pairs, self.supply.common)
         return self._tree.pairs_to_root(wire)
 
 
@@ -700,14 +711,15 @@ class _TreeToRoot:
 
     __slots__ = ("root", "blocks", "up_of_block", "up_of_wire")
 
-    def __init__(self, graph: nx.Graph, root: str):
+    def __init__(self, edges: list[_Pair], root: str):
+        """``edges``: the graph's edges as wire pairs, each once."""
         self.root = root
-        self.blocks: list[set[_Pair]] = []
+        self.blocks: list[tuple[_Pair, ...]] = []
         # A wire in more than one block is a cut vertex; the others are leaves of the tree.
         first: dict[str, int] = {}
         more: dict[str, list[int]] = {}
-        for i, edges in enumerate(_nx().biconnected_component_edges(graph)):
-            pairs = {_pair(*e) for e in edges}
+        for i, block in enumerate(biconnected_blocks((j, a, b) for j, (a, b) in enumerate(edges))):
+            pairs = tuple(edges[j] for j in block)
             self.blocks.append(pairs)
             for w in {w for pair in pairs for w in pair}:
                 if w in first:
@@ -739,7 +751,7 @@ class _TreeToRoot:
         out: set[_Pair] = set()
         b = self.up_of_wire.get(wire)
         while b is not None:
-            out |= self.blocks[b]
+            out.update(self.blocks[b])
             up = self.up_of_block[b]
             if up == self.root:
                 break
@@ -747,19 +759,10 @@ class _TreeToRoot:
         return out
 
 
-def _component_map(graph: nx.Graph) -> dict[str, int]:
-    out = {}
-    for i, comp in enumerate(_nx().connected_components(graph)):
-        for wire in comp:
-            out[wire] = i
-    return out
-
-
 def _component_map_of_pairs(base: "_NonLoadGraph", removed: set[str]) -> dict[str, int]:
-    """Like ``_component_map(base.without(removed))``, by union-find, with no graph built.
+    """Wire -> number of its connected part in ``base`` with the wires ``removed``, by union-find.
 
-    Only whether two wires share a part is ever asked, so the numbers need
-    not match those of ``_component_map``.
+    Only whether two wires share a part is ever asked of the numbers.
     """
     sets = WireSets()
     for w in base.wires:

@@ -14,7 +14,7 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from ctllint.circuit import Circuit, _block_chain, path_text
+from ctllint.circuit import Circuit, _block_chain, biconnected_blocks, path_text
 from ctllint.testing import load_schematic
 from ctllint.model import Element, Location, Quantity, Rung, Schematic, Supply
 from ctllint.model import Path as ModelPath
@@ -295,6 +295,30 @@ def test_block_chain_helper():
     chain = _block_chain(edges, "1", "4")
     assert [(sorted(b), x, y) for b, x, y in chain] == [([0], "1", "2"), ([1, 2], "2", "3"), ([3], "3", "4")]
     assert _block_chain(edges, "1", "nowhere") is None
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.lists(st.tuples(st.integers(0, 7), st.integers(0, 7)), max_size=14))
+def test_biconnected_blocks_agree_with_networkx(pairs):
+    """Reference: networkx's biconnected_component_edges on the same graph.
+
+    networkx keeps one edge per wire pair (a simple graph), so parallel edges
+    are compared as their pair: they must share a block, and the blocks of
+    pairs must be networkx's. Self-loops are in no block in either.
+    """
+    import networkx as nx
+
+    edges = [(i, str(a), str(b)) for i, (a, b) in enumerate(pairs)]
+    ours = biconnected_blocks(edges)
+    ids = [e for block in ours for e in block]
+    assert len(ids) == len(set(ids)) and set(ids) == {i for i, a, b in edges if a != b}
+    pair = {i: frozenset((a, b)) for i, a, b in edges}
+    graph = nx.Graph((a, b) for _, a, b in edges if a != b)
+    theirs = sorted(sorted(map(sorted, {frozenset(e) for e in block})) for block in nx.biconnected_component_edges(graph))
+    mine = sorted(sorted(map(sorted, {pair[i] for i in block})) for block in ours)
+    # Parallel edges between two wires that are a bridge in the simple graph
+    # form a block of their own in ours, as in networkx (the bridge's block).
+    assert mine == theirs
 
 
 # ---------------------------------------------------------------------------
