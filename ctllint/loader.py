@@ -338,7 +338,8 @@ class _Loader:
     def load(self, text: str) -> LoadResult:
         self.source = text
         self.line_count = count_lines(text)
-        sch = self.sch = Schematic(path=self.path, loc=Location(self.path, 1, 1), text=text, line_count=self.line_count)
+        sch = self.sch = Schematic(path=self.path, loc=Location(self.path, 1, 1), line_count=self.line_count)
+        sch.text = text
         # The two large sections are read entry by entry while the file is
         # parsed (see yamlsafe.compose): the whole file is never a tree in memory.
         sections = {"devices": (MappingNode, self.device_entry), "rungs": (SequenceNode, self.rung_item)}

@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from enum import IntEnum
 import struct
+import zlib
 from typing import Any
 
 
@@ -174,6 +175,7 @@ class Device:
 
 
 _POS = struct.Struct("<II")
+_PACK_TEXT_ABOVE = 64 * 1024  # characters; smaller files keep their text as it is
 
 
 def _pack(positions: list[tuple[int, int]]) -> bytes:
@@ -342,8 +344,8 @@ class Schematic:
     expect: list[Scenario] = field(default_factory=list)
     uses: list[str] = field(default_factory=list)  # resolved paths of used files
     device_file: bool = False  # holds only devices (a shared device file)
-    text: str = field(default="", repr=False)  # the file as read
     line_count: int = 0  # lines in ``text``, as ``str.splitlines`` counts them
+    _text: str | bytes = field(default="", repr=False, compare=False)  # see ``text``
     _elements: tuple[int, list[Element]] | None = field(default=None, repr=False, compare=False)
 
     @property
@@ -353,6 +355,20 @@ class Schematic:
         if self._elements is None or self._elements[0] != count:
             self._elements = (count, [e for r in self.rungs for p in r.paths for e in p.elements])
         return self._elements[1]
+
+    @property
+    def text(self) -> str:
+        """The file as read.
+
+        A large file's text is kept compressed (zlib, fastest level: about a
+        tenth of its size) while the rules run, and unpacked on each call.
+        """
+        held = self._text
+        return zlib.decompress(held).decode("utf-8") if isinstance(held, bytes) else held
+
+    @text.setter
+    def text(self, text: str) -> None:
+        self._text = zlib.compress(text.encode("utf-8"), 1) if len(text) > _PACK_TEXT_ABOVE else text
 
     @property
     def text_lines(self) -> list[str]:

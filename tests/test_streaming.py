@@ -133,3 +133,18 @@ def test_hand_built_model_objects_keep_what_they_were_given():
         Element(0, "M1", "coil", "M1.NO", at, 0, "1", "2")
     p = Path(["1", "2"], [Location("x", 3, 1), Location("x", 3, 9)], [el], at)
     assert p.wire_locs == [Location("x", 3, 1), Location("x", 3, 9)]
+
+
+def test_a_large_files_text_reads_back_exactly_and_its_suppressions_still_work():
+    from ctllint.testing import checker
+
+    body = GOOD.replace("  PB1: {kind: pushbutton, function: stop}\n", "  PB1: {kind: pushbutton, function: stop}  # ctllint-allow: unused-device -- spare\n")
+    filler = "".join(f"  SP{i}: {{kind: pilot-light, voltage: 120 VAC}}  # ctllint-allow: unused-device -- spare light\n" for i in range(1000))
+    text = body.replace("  SS1:", filler + "  SS1:", 1)
+    assert len(text) > 64 * 1024
+    sch = load_text(text, "t.ctl.yaml").schematic
+    assert isinstance(sch._text, bytes) and len(sch._text) < len(text) // 4  # held packed
+    assert sch.text == text and sch.text_lines == text.splitlines() and sch.line_count == len(text.splitlines())
+    found = [(d.line, d.rule) for d in checker().check_text(text).diagnostics]
+    assert (9, "suppression") in found  # PB1 is used: its suppression suppresses nothing, and says so
+    assert not any(rule == "unused-device" for _, rule in found)  # the spare lights' suppressions hold
