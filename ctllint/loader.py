@@ -224,15 +224,12 @@ class _Loader:
         return self.source.splitlines()
 
     def loc(self, node: Node) -> Location:
-        line, col = node.line, node.column
-        if line > self.line_count:  # an empty value at the very end of the file
-            line, col = within(self.text_lines(), line, col)
-        return Location(self.path, line, col)
+        return Location(self.path, *self.position(node))
 
     def position(self, node: Node) -> tuple[int, int]:
-        """``loc(node)`` as (line, column), for the model's packed positions."""
+        """Where ``node`` stands as (line, column); the model keeps many of these packed."""
         line, col = node.line, node.column
-        if line > self.line_count:
+        if line > self.line_count:  # an empty value at the very end of the file
             line, col = within(self.text_lines(), line, col)
         return line, col
 
@@ -993,7 +990,7 @@ def count_lines(text: str) -> int:
 
 
 def _streamed(node: Node) -> bool:
-    return isinstance(node, (MappingNode, SequenceNode)) and node.streamed
+    return isinstance(node, (MappingNode, SequenceNode)) and node.streamed is not None
 
 
 def _display_path(base: str, rel: str) -> str:

@@ -88,7 +88,7 @@ class SequenceNode(Node):
         self.value: list[Node] = []
         self.size = 1  # values below it once aliases are expanded
         self.anchored = False  # an alias may name it, so it can have more than one parent
-        self.streamed = False  # its items went to a section reader as they were read (see compose)
+        self.streamed: SectionReader | None = None  # the reader its items went to as they were read (see compose)
 
 
 class MappingNode(Node):
@@ -99,7 +99,7 @@ class MappingNode(Node):
         self.value: list[tuple[Node, Node]] = []
         self.size = 1  # values below it once aliases are expanded
         self.anchored = False  # an alias may name it, so it can have more than one parent
-        self.streamed = False  # its entries went to a section reader as they were read (see compose)
+        self.streamed: SectionReader | None = None  # the reader its entries went to as they were read (see compose)
 
 
 class YamlProblem(Exception):
@@ -139,14 +139,14 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
     mapping and the value of its top-level key ``name`` is a node of the
     given class (MappingNode or SequenceNode) with no anchor, each entry of
     that value goes to the reader as soon as it is complete and is not kept:
-    the value is left empty, marked ``streamed``. The reader sees the file's
+    the value is left empty, its ``streamed`` set to the reader. The reader sees the file's
     entries in file order, checked as every node is (tags, limits, duplicate
     keys); only one entry's nodes are alive at a time, so a large file is
     never held as a whole tree. A YAML error later in the file still raises
     YamlProblem: the caller discards what its readers built.
     """
     stack: list[Node] = []
-    keys: list[dict] = []         # per open mapping: resolved key -> key node
+    keys: list[dict] = []         # per open mapping: resolved key -> its line
     pending: list[Node | None] = []  # per open mapping: the key waiting for its value
     anchors: dict[str, Node] = {}
     open_ids: set[int] = set()
@@ -170,7 +170,7 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
             raise YamlProblem(node.line, node.column, f"document expands to more than {limits.max_nodes} values (aliases included); limit max_nodes")
         if isinstance(parent, SequenceNode):
             if parent.streamed:
-                readers[id(parent)](None, node)
+                parent.streamed(None, node)
             else:
                 parent.value.append(node)
             return
@@ -190,7 +190,7 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
         else:
             pending[-1] = None
             if parent.streamed:
-                readers[id(parent)](key, node)
+                parent.streamed(key, node)
             else:
                 parent.value.append((key, node))
 
@@ -198,7 +198,6 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
     # string: most of a large file's scalars are short and repeated, and every
     # Location and model field built from them keeps them alive.
     shared: dict[str, str] = {}
-    readers: dict[int, SectionReader] = {}  # id of a streamed section node -> its reader
     mark_line, line = -1, 0  # the parser's 0-based line of the last node, and our 1-based int for it
 
     next_event = _event_source(text)
@@ -243,8 +242,7 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
                     name = scalar_value(pending[0])
                     wanted = sections.get(name) if isinstance(name, str) else None
                     if wanted is not None and node.__class__ is wanted[0]:
-                        node.streamed = True
-                        readers[id(node)] = wanted[1]
+                        node.streamed = wanted[1]
                 stack.append(node)
                 open_ids.add(id(node))
                 if cls is MappingStartEvent:
