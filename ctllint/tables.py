@@ -378,6 +378,9 @@ def pilot_duty_limits(designation: str, volts: float, current_kind: str) -> Pilo
             # current (B300 at 24 VAC breaks 5 A, not 3 A)
             return PilotLimits(duty.continuous, make, min(duty.break_va / volts, duty.continuous))
         return PilotLimits(duty.continuous, duty.make_va / volts, duty.break_va / volts)
+    for column_v, make, brk in duty.columns:
+        if _close(volts, column_v):  # at a column voltage, the published column figure
+            return PilotLimits(duty.continuous, make, brk)
     if _at_most(volts, _DC_VA_UP_TO_V):
         # up to 300 V (the VA figure's range; the 125 V and 250 V columns are
         # that VA over their voltage): make = break = VA / V, never above the
