@@ -1147,7 +1147,7 @@ rungs:
     Rule(
         name="overload-setting",
         severity=Severity.ERROR,
-        summary="an overload relay trips above NEC 430.32 (error), below the motor's full-load current (warning), or cannot be verified (info)",
+        summary="an overload trips above NEC 430.32 (error), below full-load current (warning), or is unverified (info)",
         doc=(
             "A motor overload relay protects the windings from running overcurrent. NEC 430.32 limits its TRIP "
             "current, sized from the motor's NAMEPLATE full-load current (430.6(A)(2)): at most 125 % for a marked "
