@@ -19,17 +19,23 @@ continuous current.
 Rules:
 
 - ``contact-rating``: one contact's (or PLC output's) duty beyond its rating;
-  a contactor's main poles below the motor's full-load current (AC-3), a
-  heater's current (AC-1) or a NEMA size's continuous current.
-- ``overload-setting``: an overload relay set above NEC 430.32(A)(1) (error)
-  or below the motor's full-load current (warning).
-- ``control-transformer``: the loads of a transformer's supply beyond its VA
-  rating, sealed and (with ``inrush_rating``) at inrush.
+  a contactor's main poles below the motor's horsepower at its voltage (NEMA
+  size), its controller current (AC-3), a heater's current (AC-1).
+- ``overload-setting``: an overload relay whose trip current (dial x trip
+  multiple) is above NEC 430.32 of the nameplate current (error), below it
+  (warning), or cannot be verified for want of a nameplate (info).
+- ``motor-overload``: a contactor feeding a motor with no overload protection.
+- ``control-transformer``: the loads of a transformer's supplies (over every
+  schematic of the run for a shared transformer) beyond its VA rating,
+  sealed and at inrush; a DC power supply's loads beyond its rating.
 - ``transformer-protection``: control-transformer fuses missing or above
   NEC 430.72(C) and Table 450.3(B).
-- ``vacuum-contactor``: a contactor switching more than 400 A in air.
+- ``vacuum-contactor``: a contactor switching more than 400 A in air (info).
 - ``inductive-on-electronic-output``: a transistor or triac output driving an
   unsuppressed inductive load.
+
+The tables are US (NEC, NEMA) and IEC figures, partly from memory; other
+codes (CEC, local rules) may differ.
 """
 from __future__ import annotations
 
