@@ -315,6 +315,22 @@ command("explain", "print a rule's documentation: why, source, a failing and a p
 
 # -- main -----------------------------------------------------------------------
 
+def refuse_file_named_like_option(words: list[str]) -> None:
+    """A word before ``--`` that reads as an option but names an existing file is refused.
+
+    pre-commit and git append file names to a command line; a file named
+    ``--write-baseline=.ctl.yaml`` or ``-o.ctl.yaml`` would otherwise be taken
+    as an option (and could turn a failing check into a pass). The hook and
+    the diff driver put ``--`` before the names; this catches a command line
+    that forgot it. A usage error (exit 2), never a silent pass.
+    """
+    for word in words:
+        if word == "--":
+            return
+        if len(word) > 1 and word.startswith("-") and os.path.lexists(word):
+            raise UsageError(f"ctllint: '{printable(word)}' is both an option and the name of a file; put -- before file names "
+                             f"(ctllint check -- FILE...)")
+
 def main(argv: list[str] | None = None) -> int:
     from . import commands
 
@@ -322,6 +338,7 @@ def main(argv: list[str] | None = None) -> int:
     commands.load(next((w for w in words if not w.startswith("-")), ""))
     parser = build_parser()
     try:
+        refuse_file_named_like_option(words)
         args = parser.parse_args(argv)
         if not args.command:
             parser.print_help()

@@ -23,7 +23,7 @@ Tell git which files use the driver, in ``.gitattributes`` (commit it)::
 
 and define the driver, once per clone (or ``--global``)::
 
-    git config diff.ctllint.command "ctllint diff --git-external"
+    git config diff.ctllint.command "ctllint diff --git-external --"
 
 ``git diff``, ``git diff --cached`` and ``git diff REV`` then print the
 semantic diff for schematics and the usual line diff for other files.
@@ -68,7 +68,7 @@ examples:
 
 git integration (git diff shows this diff for schematics):
   printf '*.ctl.yaml diff=ctllint\\n*.ctl.yml diff=ctllint\\n' >> .gitattributes
-  git config diff.ctllint.command "ctllint diff --git-external"
+  git config diff.ctllint.command "ctllint diff --git-external --"
   git diff; git log -p --ext-diff; git diff --no-ext-diff for the line diff
   (git calls the driver with: path old-file old-hex old-mode new-file new-hex
   new-mode; /dev/null stands for the missing side of an added or deleted file)
