@@ -148,7 +148,7 @@ def write_output(text: str, output: str | None) -> None:
         # A device or pipe (/dev/null, /dev/stdout, a FIFO): write into it; a
         # rename would replace the device itself with a plain file.
         try:
-            with open(output, "w", encoding="utf-8", newline="\n") as handle:
+            with open(output, "w", encoding="utf-8", errors="backslashreplace", newline="\n") as handle:
                 handle.write(text)
         except OSError as exc:
             raise UsageError(f"ctllint: cannot write {output}: {exc.strerror or exc}") from None
@@ -161,7 +161,8 @@ def write_output(text: str, output: str | None) -> None:
         mode = 0o666 & ~umask
     fd, tmp = tempfile.mkstemp(prefix=".ctllint-", suffix=".tmp", dir=folder)
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
+        # backslashreplace: a lone surrogate left in some message is shown escaped, never a crash
+        with os.fdopen(fd, "w", encoding="utf-8", errors="backslashreplace", newline="\n") as handle:
             handle.write(text)
         os.chmod(tmp, mode)
         os.replace(tmp, output)
@@ -331,7 +332,32 @@ def refuse_file_named_like_option(words: list[str]) -> None:
             raise UsageError(f"ctllint: '{printable(word)}' is both an option and the name of a file; put -- before file names "
                              f"(ctllint check -- FILE...)")
 
+class Terminated(KeyboardInterrupt):
+    """SIGTERM, raised in the main thread so that workers are stopped and temporary files removed.
+
+    A KeyboardInterrupt, so that code which lets Ctrl-C through lets this through too.
+    """
+
+
+def _on_sigterm(signum: int, frame: Any) -> None:
+    raise Terminated()
+
+
 def main(argv: list[str] | None = None) -> int:
+    import signal
+    import threading
+
+    previous = None
+    if threading.current_thread() is threading.main_thread():
+        previous = signal.signal(signal.SIGTERM, _on_sigterm)
+    try:
+        return _main(argv)
+    finally:
+        if previous is not None:
+            signal.signal(signal.SIGTERM, previous)
+
+
+def _main(argv: list[str] | None) -> int:
     from . import commands
 
     words = sys.argv[1:] if argv is None else argv
@@ -350,6 +376,9 @@ def main(argv: list[str] | None = None) -> int:
     except ConfigError as exc:
         print(f"ctllint: configuration error: {exc}", file=sys.stderr)
         return EXIT_USAGE
+    except Terminated:
+        print("ctllint: terminated", file=sys.stderr)
+        return 143  # 128 + SIGTERM, as a shell reports it
     except KeyboardInterrupt:
         print("ctllint: interrupted", file=sys.stderr)
         return 130

@@ -78,9 +78,15 @@ def find_config(start: str) -> str | None:
 
 
 def _has_tool_table(path: str) -> bool:
+    """Whether pyproject.toml has a ``[tool.ctllint]`` table, looked for in its bytes.
+
+    Any pyproject.toml above the current folder is looked at, so one that is
+    not UTF-8 (or not TOML at all) and names no ctllint table is passed
+    over; one that does name it is read, and its problem reported (exit 2).
+    """
     try:
-        with open(path, encoding="utf-8") as handle:
-            return re.search(r"^\s*\[tool\.ctllint(\.|\])", handle.read(), re.M) is not None
+        with open(path, "rb") as handle:
+            return re.search(rb"^\s*\[tool\.ctllint(\.|\])", handle.read(), re.M) is not None
     except OSError:
         return False
 

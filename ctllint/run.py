@@ -131,6 +131,38 @@ def _check_one(target: Target) -> FileResult:
 def _worker_init(checker: Checker) -> None:
     global _WORKER
     _WORKER = checker
+    import signal
+
+    # The main process turns SIGTERM into an exception so that it can clean up;
+    # a worker must simply die of it when the main process stops it.
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)
+    signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C reaches the whole group: the main process decides
+    if sys.platform.startswith("linux"):  # and die with the main process, even when it is killed outright
+        try:
+            import ctypes
+
+            ctypes.CDLL(None, use_errno=True).prctl(1, signal.SIGTERM)  # PR_SET_PDEATHSIG
+        except (OSError, AttributeError):
+            pass
+
+
+def _stop_workers(pool) -> None:
+    """Stop a pool's worker processes now (an interrupt or SIGTERM): nothing is left running."""
+    processes = list((getattr(pool, "_processes", None) or {}).values())
+    for proc in processes:
+        try:
+            proc.terminate()
+        except (OSError, ValueError):
+            pass
+    pool.shutdown(wait=False, cancel_futures=True)
+    for proc in processes:
+        try:
+            proc.join(5)
+            if proc.is_alive():
+                proc.kill()
+                proc.join(5)
+        except (OSError, ValueError, AssertionError):
+            pass
 
 
 def dependents(device_files: list[str], exclude: list[str], base: str | None) -> list[Target]:
@@ -221,10 +253,15 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
         parallel = "fork" in multiprocessing.get_all_start_methods()
     if parallel:
         context = multiprocessing.get_context("fork")
-        with ProcessPoolExecutor(max_workers=min(jobs, len(todo)), mp_context=context, initializer=_worker_init, initargs=(checker,)) as pool:
+        pool = ProcessPoolExecutor(max_workers=min(jobs, len(todo)), mp_context=context, initializer=_worker_init, initargs=(checker,))
+        try:
             chunk = max(1, len(todo) // (jobs * 4))
             for i, result in zip(todo, pool.map(_check_one, [targets[i] for i in todo], chunksize=chunk)):
                 results[i] = result
+        except BaseException:  # SIGTERM, Ctrl-C, a broken pool: the workers must not outlive the run
+            _stop_workers(pool)
+            raise
+        pool.shutdown()
     else:
         for i in todo:
             results[i] = checker.check_file(targets[i].path, display_path=targets[i].shown)

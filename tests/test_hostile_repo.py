@@ -128,3 +128,151 @@ def test_git_diff_driver_with_a_file_named_like_an_option(tmp_path, monkeypatch,
     done = subprocess.run(["git", "-c", f"diff.ctllint.command={driver}", "diff"], cwd=repo, capture_output=True, text=True)
     assert done.returncode != 0 and "put -- before file names" in done.stderr
     assert not (repo / ".ctl.yaml").exists()
+
+
+# -- 7. names that are not UTF-8, legacy pyproject.toml, SIGTERM -----------------------------
+
+NOT_UTF8 = b"p\xff\xfe-pump.ctl.yaml"
+
+
+@pytest.mark.skipif(sys.platform == "darwin", reason="the file system refuses names that are not UTF-8")
+@pytest.mark.parametrize("fmt", ["text", "json", "sarif", "junit"])
+def test_a_file_name_that_is_not_utf8_is_reported_not_a_crash(tmp_path, monkeypatch, clean_env, fmt):
+    monkeypatch.chdir(tmp_path)
+    os.mkdir(b"plant")
+    with open(os.path.join(b"plant", NOT_UTF8), "w") as handle:
+        handle.write(BROKEN)
+    rc, out, err = run_cli("check", "plant", "--format", fmt, "-o", "out")
+    assert rc == 1, err
+    text = (tmp_path / "out").read_text(encoding="utf-8")  # strict: the report is valid UTF-8
+    if fmt == "json":
+        assert json.loads(text)["diagnostics"][0]["path"] == os.path.join("plant", "p\\xff\\xfe-pump.ctl.yaml")
+    elif fmt == "sarif":  # how the name is written in a URI is the SARIF writer's business; one result, on that file
+        results = json.loads(text)["runs"][0]["results"]
+        assert [r["ruleId"] for r in results] == ["stop-normally-closed"]
+        assert "xff" in results[0]["locations"][0]["physicalLocation"]["artifactLocation"]["uri"]
+    else:
+        assert "p\\xff\\xfe-pump.ctl.yaml" in text
+    rc, out, err = run_cli("check", "plant")  # and on standard output
+    assert rc == 1 and "p\\xff\\xfe-pump.ctl.yaml:12:14: error:" in out, err
+
+
+@pytest.mark.skipif(sys.platform == "darwin", reason="the file system refuses names that are not UTF-8")
+def test_report_of_a_file_name_that_is_not_utf8(tmp_path, monkeypatch, clean_env):
+    monkeypatch.chdir(tmp_path)
+    with open(NOT_UTF8, "w") as handle:
+        handle.write(BROKEN)
+    rc, out, err = run_cli("report", ".", "-o", "report.html")
+    assert rc == 1, err
+    assert "p\\xff\\xfe-pump.ctl.yaml" in (tmp_path / "report.html").read_text(encoding="utf-8")
+
+
+def test_a_legacy_encoded_pyproject_in_a_parent_folder_is_passed_over(tmp_path, monkeypatch, clean_env):
+    (tmp_path / "pyproject.toml").write_bytes('[project]\nname = "Schaltpläne"\n'.encode("latin-1"))
+    work = tmp_path / "plant"
+    work.mkdir()
+    (work / "pump.ctl.yaml").write_text(BROKEN)
+    monkeypatch.chdir(work)
+    rc, out, err = run_cli("check", "pump.ctl.yaml")
+    assert rc == 1 and "stop-normally-closed" in out, err
+    assert run_cli("rules")[0] == 0
+    # one that does hold a ctllint table is read, and its encoding explained (a configuration error)
+    (tmp_path / "pyproject.toml").write_bytes('[tool.ctllint]\n# Schaltpläne\nfail-on = "warning"\n'.encode("latin-1"))
+    rc, out, err = run_cli("check", "pump.ctl.yaml")
+    assert rc == 2 and "pyproject.toml" in err and "configuration error" in err, err
+
+
+SLOW_PLUGIN = textwrap.dedent("""\
+    import time
+    from ctllint import hookimpl
+    from ctllint.api import Rule
+    from ctllint.model import Severity
+
+    def check(ctx):
+        time.sleep(120)
+        return []
+
+    @hookimpl
+    def ctllint_rules():
+        return [Rule(name="site-slow", severity=Severity.INFO, summary="sleeps", doc="Sleeps.", source="test", check=check)]
+    """)
+
+
+def _children(pid: int) -> set[int]:
+    out = set()
+    for entry in os.listdir("/proc"):
+        if entry.isdigit():
+            try:
+                with open(f"/proc/{entry}/stat") as handle:
+                    fields = handle.read().rsplit(")", 1)[1].split()
+            except OSError:
+                continue
+            if int(fields[1]) == pid:
+                out.add(int(entry))
+    return out
+
+
+def _alive(pid: int) -> bool:
+    try:
+        with open(f"/proc/{pid}/stat") as handle:
+            return handle.read().rsplit(")", 1)[1].split()[0] != "Z"
+    except OSError:
+        return False
+
+
+@pytest.mark.skipif(not os.path.isdir("/proc"), reason="needs /proc to find the workers")
+def test_sigterm_stops_the_workers_and_removes_the_temporary_output(tmp_path):
+    import signal
+    import time
+
+    (tmp_path / ".git").mkdir()
+    (tmp_path / "slow.py").write_text(SLOW_PLUGIN)
+    (tmp_path / ".ctllint.yaml").write_text("plugins: [slow.py]\nlimits: {plugin_seconds: 300}\ncache: false\n")
+    for i in range(4):
+        (tmp_path / f"p{i}.ctl.yaml").write_text(BROKEN)
+    log = open(tmp_path / "stdout", "wb")
+    proc = subprocess.Popen([sys.executable, "-m", "ctllint", "check", "--jobs", "2", "-o", "out.json", "--format", "json", "."],
+                            cwd=tmp_path, stdout=log, stderr=subprocess.PIPE)
+    workers: set[int] = set()
+    try:
+        deadline = time.monotonic() + 60
+        while len(workers) < 2 and time.monotonic() < deadline:
+            workers = _children(proc.pid)
+            time.sleep(0.2)
+        assert len(workers) >= 2, "the workers did not start"
+        time.sleep(1.0)  # the workers are inside the slow rule now
+        proc.send_signal(signal.SIGTERM)
+        proc.wait(timeout=30)
+        deadline = time.monotonic() + 10
+        while any(_alive(w) for w in workers) and time.monotonic() < deadline:
+            time.sleep(0.1)
+        assert not any(_alive(w) for w in workers), "workers outlived the main process"
+        assert proc.returncode == 143, proc.stderr.read()
+        assert [n for n in os.listdir(tmp_path) if n.endswith(".tmp")] == []
+    finally:
+        for pid in workers:  # only the processes this test started
+            try:
+                os.kill(pid, signal.SIGKILL)
+            except OSError:
+                pass
+        if proc.poll() is None:
+            proc.kill()
+        log.close()
+
+
+def test_sigterm_while_the_report_is_written_removes_the_temporary_file(tmp_path):
+    (tmp_path / "pump.ctl.yaml").write_text(BROKEN)
+    script = textwrap.dedent("""\
+        import os, signal, sys
+        import ctllint.cli as cli
+        real = os.chmod
+        def chmod(*a, **k):  # called between writing the temporary file and renaming it
+            os.kill(os.getpid(), signal.SIGTERM)
+            return real(*a, **k)
+        os.chmod = chmod
+        sys.exit(cli.main(["check", "pump.ctl.yaml", "-o", "out.txt"]))
+        """)
+    done = subprocess.run([sys.executable, "-c", script], cwd=tmp_path, capture_output=True, text=True, timeout=120,
+                          env=dict(os.environ, CTLLINT_NO_CACHE="1"))
+    assert done.returncode == 143, done.stderr
+    assert sorted(os.listdir(tmp_path)) == ["pump.ctl.yaml"]
