@@ -86,18 +86,42 @@ def add_config_args(p: argparse.ArgumentParser) -> None:
     p.add_argument("--config", metavar="FILE", help="configuration file (default: .ctllint.yaml or [tool.ctllint] in pyproject.toml, found by walking up from the current folder)")
 
 
-def setup(args: argparse.Namespace) -> tuple[Config, PluginHost]:
+def add_plugins_arg(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--plugins", action="store_true",
+                   help="also load the local plugins named under plugins: in the configuration (Python code of the repository; "
+                        "only for a repository you trust). Without it they are not run")
+
+
+def setup(args: argparse.Namespace, trust_local: bool | None = None) -> tuple[Config, PluginHost]:
+    """Configuration and plugins for a command.
+
+    Local plugins (``plugins:`` in the configuration) are Python files of the
+    repository: running them is running the repository's code. ``check``,
+    ``rules`` and ``explain`` load them and say so on standard error; the
+    commands that only show a circuit (diff, draw, report, xref, simulate,
+    schema) load them only with ``--plugins`` (``trust_local`` False unless
+    the flag was given), and say when they were left out.
+    """
     path = getattr(args, "config", None)
     if path is not None and not os.path.isfile(path):
         raise UsageError(f"ctllint: configuration file '{path}' does not exist")
     cfg = load_config(path or find_config(os.getcwd()))
+    if trust_local is None:
+        trust_local = bool(getattr(args, "plugins", False))
+    where = printable(os.path.relpath(cfg.path) if cfg.path and not os.path.relpath(cfg.path).startswith("..") else str(cfg.path))
+    if cfg.plugins and not trust_local:
+        print(f"ctllint: local plugins named in {where} not loaded (pass --plugins to run them): "
+              f"{', '.join(printable(p) for p in cfg.plugins)}", file=sys.stderr)
+        cfg.untrusted_plugins, cfg.plugins = cfg.plugins, []
     host = PluginHost.create(local_plugins=cfg.plugins)
+    if cfg.plugins:
+        print(f"ctllint: loaded local plugins from {where}: {', '.join(printable(p) for p in cfg.plugins)}", file=sys.stderr)
     return cfg, host
 
 
 def settings_for(cfg: Config, host: PluginHost, select: list[str] | None, ignore: list[str]) -> RuleSettings:
     try:
-        enabled, severities, options = resolve_rules(cfg, host.rules, select, ignore)
+        enabled, severities, options = resolve_rules(cfg, host.rules, select, ignore, lenient=bool(cfg.untrusted_plugins))
     except ValueError as exc:
         raise UsageError(f"ctllint: {exc}") from None
     return RuleSettings(enabled, severities, options, time_limit=cfg.limits.plugin_seconds)
@@ -198,7 +222,7 @@ def _configure_check(p: argparse.ArgumentParser) -> None:
 def _run_check(args: argparse.Namespace) -> int:
     from .run import run_check
 
-    cfg, host = setup(args)
+    cfg, host = setup(args, trust_local=True)
     if args.format not in host.formats:
         raise UsageError(f"ctllint: unknown format '{args.format}' (available: {', '.join(sorted(host.formats))})")
     settings = settings_for(cfg, host, split_names(args.select) or None, split_names(args.ignore))
@@ -267,7 +291,7 @@ def rules_table(host: PluginHost, fmt: str = "text") -> str:
 
 
 def _run_rules(args: argparse.Namespace) -> int:
-    _, host = setup(args)
+    _, host = setup(args, trust_local=True)
     sys.stdout.write(rules_table(host, args.format))
     for p in host.problems:
         print(f"ctllint: plugin-error: {p.plugin}: {p.message}", file=sys.stderr)
@@ -300,7 +324,7 @@ def explain_text(rule: Any) -> str:
 
 
 def _run_explain(args: argparse.Namespace) -> int:
-    _, host = setup(args)
+    _, host = setup(args, trust_local=True)
     rule = host.rules.get(args.rule)
     if rule is None:
         import difflib

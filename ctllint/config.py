@@ -55,6 +55,7 @@ class Config:
     limits: Limits = field(default_factory=Limits)
     cache: bool | str = True
     jobs: int | None = None
+    untrusted_plugins: list[str] = field(default_factory=list)  # named under plugins: but not loaded (no --plugins)
     lines: dict[str, int] = field(default_factory=dict)  # "rules.NAME.KEY" -> line, for messages
 
     def line_of(self, key: str) -> int:
@@ -236,12 +237,15 @@ def _build(path: str, data: Any, lines: dict[str, int]) -> Config:
     return cfg
 
 
-def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ignore: list[str]) -> tuple[list[str], dict[str, Severity], dict[str, dict[str, Any]]]:
+def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ignore: list[str],
+                  lenient: bool = False) -> tuple[list[str], dict[str, Severity], dict[str, dict[str, Any]]]:
     """Enabled rule names, severity overrides and options, validated against the registered rules.
 
     ``rules`` maps names to Rule values. A name in select/ignore may be a
     rule or a plugin. Raises ConfigError (or ValueError for command-line
-    names) naming what is unknown.
+    names) naming what is unknown. ``lenient``: the configuration's local
+    plugins were not loaded, so names in the configuration that no loaded
+    plugin registered are passed over (they may be those plugins' rules).
     """
     plugins = {r.plugin for r in rules.values()}
 
@@ -253,6 +257,8 @@ def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ig
             elif item in plugins:
                 out.update(n for n, r in rules.items() if r.plugin == item)
             elif item in ("format", "plugin-error", "suppression"):
+                continue
+            elif lenient and not from_cli:
                 continue
             else:
                 hint = _hint(item, list(rules) + sorted(plugins))
@@ -274,6 +280,8 @@ def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ig
     options = {name: {k: o.default for k, o in rule.options.items()} for name, rule in rules.items()}
     for name, settings in cfg.rules.items():
         where = f"rules.{name}"
+        if name not in rules and lenient:
+            continue
         if name not in rules:
             hint = _hint(name, list(rules))
             raise ConfigError(cfg.path or "?", cfg.line_of(where), f"unknown rule '{name}' under rules" + (f" (did you mean '{hint}'?)" if hint else ""))

@@ -276,3 +276,84 @@ def test_sigterm_while_the_report_is_written_removes_the_temporary_file(tmp_path
                           env=dict(os.environ, CTLLINT_NO_CACHE="1"))
     assert done.returncode == 143, done.stderr
     assert sorted(os.listdir(tmp_path)) == ["pump.ctl.yaml"]
+
+
+# -- 6. the trust boundary: local plugins run only where they are asked for -------------------
+
+MARKER_PLUGIN = textwrap.dedent("""\
+    import os
+    from ctllint import hookimpl
+    from ctllint.api import Finding, Rule
+    from ctllint.model import Severity
+
+    with open(os.path.join(os.path.dirname(os.path.abspath(__file__)), "RAN"), "a") as handle:  # proof that it ran
+        handle.write("imported\\n")
+
+    def check(ctx):
+        yield Finding(ctx.schematic.loc, "site rule ran")
+
+    @hookimpl
+    def ctllint_rules():
+        return [Rule(name="site-marker", severity=Severity.WARNING, summary="marks", doc="Marks.", source="test", check=check)]
+    """)
+
+
+@pytest.fixture
+def plugin_repo(tmp_path, monkeypatch, clean_env):
+    repo = tmp_path / "clone"
+    (repo / ".git").mkdir(parents=True)
+    (repo / "tools").mkdir()
+    (repo / "tools" / "site.py").write_text(MARKER_PLUGIN)
+    # the configuration also names the plugin's rule: without the plugin that is no configuration error
+    (repo / ".ctllint.yaml").write_text("plugins: [tools/site.py]\nrules:\n  site-marker: {severity: info}\n")
+    (repo / "old.ctl.yaml").write_text(CLEAN)
+    (repo / "pump.ctl.yaml").write_text(BROKEN)
+    monkeypatch.chdir(repo)
+    return repo
+
+
+SHOWING_COMMANDS = {
+    "draw": ["draw", "pump.ctl.yaml", "-o", "out.svg"],
+    "report": ["report", ".", "-o", "out.html"],
+    "xref": ["xref", "pump.ctl.yaml"],
+    "simulate": ["simulate", "pump.ctl.yaml", "--step", "press:PB2"],
+    "diff": ["diff", "old.ctl.yaml", "pump.ctl.yaml"],
+    "diff --git-external": ["diff", "--git-external", "--", "pump.ctl.yaml", "old.ctl.yaml", "1" * 40, "100644",
+                            "pump.ctl.yaml", "0" * 40, "100644"],
+    "schema": ["schema", "-o", "schema.json"],
+}
+
+
+@pytest.mark.parametrize("name", sorted(SHOWING_COMMANDS))
+def test_showing_commands_do_not_run_local_plugins_unless_asked(plugin_repo, name):
+    argv = SHOWING_COMMANDS[name]
+    rc, out, err = run_cli(*argv)
+    assert rc in (0, 1), err
+    assert not (plugin_repo / "tools" / "RAN").exists(), f"{name} ran the repository's plugin"
+    assert "not loaded (pass --plugins to run them)" in err and "site.py" in err
+    assert "site-marker" not in out
+    i = 2 if argv[1] == "--git-external" else 1
+    rc, out, err = run_cli(*argv[:i], "--plugins", *argv[i:])
+    assert rc in (0, 1), err
+    assert (plugin_repo / "tools" / "RAN").exists(), f"{name} --plugins did not load the plugin"
+    assert "loaded local plugins from .ctllint.yaml" in err
+
+
+def test_check_says_which_local_plugins_it_loaded(plugin_repo):
+    rc, out, err = run_cli("check", "pump.ctl.yaml")
+    assert rc == 1
+    assert (plugin_repo / "tools" / "RAN").exists()
+    assert "[site-marker]" in out
+    assert "ctllint: loaded local plugins from .ctllint.yaml: " in err and os.path.join("tools", "site.py") in err
+
+
+@needs_git
+def test_the_git_diff_driver_does_not_run_the_clones_plugins(plugin_repo):
+    git(plugin_repo, "init", "-q")
+    (plugin_repo / ".gitattributes").write_text("*.ctl.yaml diff=ctllint\n")
+    git(plugin_repo, "add", ".")
+    git(plugin_repo, "commit", "-qm", "first")
+    (plugin_repo / "pump.ctl.yaml").write_text(CLEAN)
+    out = git(plugin_repo, "-c", f'diff.ctllint.command="{sys.executable}" -m ctllint diff --git-external --', "diff")
+    assert "ctllint diff pump.ctl.yaml" in out
+    assert not (plugin_repo / "tools" / "RAN").exists()

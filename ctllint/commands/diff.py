@@ -50,7 +50,7 @@ import subprocess
 import sys
 import tempfile
 
-from ..cli import EXIT_OK, UsageError, add_config_args, command, settings_for, setup, write_output
+from ..cli import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, settings_for, setup, write_output
 from ..diff import Revision, SchematicDiff, diff_revisions, render_json, render_text
 from ..engine import Checker
 from ..loader import SCHEMATIC_SUFFIXES
@@ -99,6 +99,7 @@ def _configure(p: argparse.ArgumentParser) -> None:
     p.add_argument("--color", "--colour", dest="color", choices=("auto", "always", "never"), default="auto",
                    help="colour the text output: auto (default: on a terminal), always, never; NO_COLOR turns it off")
     add_config_args(p)
+    add_plugins_arg(p)
 
 
 def _colour(args: argparse.Namespace) -> bool:
