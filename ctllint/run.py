@@ -23,6 +23,7 @@ from .engine import Checker, FileResult
 from .host import PluginHost, RuleSettings
 from .loader import SCHEMATIC_SUFFIXES, find_repository_root
 from .model import Diagnostic, Severity
+from .yamlsafe import Limits
 
 CACHE_FORMAT = 1
 
@@ -165,7 +166,14 @@ def _stop_workers(pool) -> None:
             pass
 
 
-def dependents(device_files: list[str], exclude: list[str], base: str | None) -> list[Target]:
+def _size(path: str) -> int:
+    try:
+        return os.stat(path).st_size
+    except (OSError, ValueError):
+        return 0
+
+
+def dependents(device_files: list[str], exclude: list[str], base: str | None, max_bytes: int = Limits().max_file_bytes) -> list[Target]:
     """Schematics in the repository that ``use`` any of ``device_files``.
 
     pre-commit passes only the files that changed; when a shared device
@@ -178,7 +186,7 @@ def dependents(device_files: list[str], exclude: list[str], base: str | None) ->
         real = os.path.realpath(device_file)
         candidates, _ = discover([root], exclude, base)
         for t in candidates:
-            if not _regular_file(t.path):
+            if not _regular_file(t.path) or _size(t.path) > max_bytes:  # as check would refuse it: not read
                 continue
             try:
                 with open(t.path, encoding="utf-8", errors="replace") as handle:
@@ -216,7 +224,7 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     device_files = [p for p in named_files if _is_device_file(p)]
     if device_files:
         known = {os.path.abspath(t.path) for t in targets}
-        for t in dependents(device_files, cfg.exclude, base):
+        for t in dependents(device_files, cfg.exclude, base, cfg.limits.max_file_bytes):
             if os.path.abspath(t.path) not in known:
                 known.add(os.path.abspath(t.path))
                 targets.append(t)

@@ -357,3 +357,106 @@ def test_the_git_diff_driver_does_not_run_the_clones_plugins(plugin_repo):
     out = git(plugin_repo, "-c", f'diff.ctllint.command="{sys.executable}" -m ctllint diff --git-external --', "diff")
     assert "ctllint diff pump.ctl.yaml" in out
     assert not (plugin_repo / "tools" / "RAN").exists()
+
+
+# -- 3. diff and report read only regular files within the size limit ---------------------------
+
+def _limit_memory() -> None:  # pragma: no cover - runs in the child
+    import resource
+
+    resource.setrlimit(resource.RLIMIT_AS, (2 * 2**30, 2 * 2**30))
+
+
+def run_bounded(args: list[str], cwd, timeout: float = 60) -> tuple[int, str, str]:
+    """``python -m ctllint ARGS`` under a memory limit; a hang fails the test after ``timeout``."""
+    env = {**os.environ, "CTLLINT_NO_CACHE": "1", "NO_COLOR": "1"}
+    try:
+        proc = subprocess.run([sys.executable, "-m", "ctllint", *args], cwd=cwd, capture_output=True, text=True,
+                              timeout=timeout, env=env, preexec_fn=_limit_memory)
+    except subprocess.TimeoutExpired:
+        pytest.fail(f"ctllint {' '.join(args)} did not finish within {timeout} s")
+    assert "Traceback" not in proc.stderr and "internal error" not in proc.stderr, proc.stderr[-3000:]
+    return proc.returncode, proc.stdout, proc.stderr
+
+
+@pytest.fixture
+def endless(tmp_path):
+    """tmp/repo with a clean schematic, a link to /dev/zero and a named pipe, both named like schematics."""
+    repo = tmp_path / "repo"
+    repo.mkdir()
+    (repo / "old.ctl.yaml").write_text(CLEAN)
+    os.symlink("/dev/zero", repo / "zero.ctl.yaml")
+    os.mkfifo(repo / "pipe.ctl.yaml")
+    return repo
+
+
+@pytest.mark.parametrize("name", ["zero.ctl.yaml", "pipe.ctl.yaml"])
+def test_diff_of_two_files_refuses_devices_and_pipes(endless, name):
+    rc, out, err = run_bounded(["diff", "old.ctl.yaml", name], endless)
+    assert rc == 0, err
+    assert f"{name}:1:1" in out and "not a regular file" in out
+
+
+@pytest.mark.parametrize("name", ["zero.ctl.yaml", "pipe.ctl.yaml"])
+def test_git_external_refuses_devices_and_pipes(endless, name):
+    # git hands over the old side as a file of its own: here a device or a pipe
+    rc, out, err = run_bounded(["diff", "--git-external", "--", "old.ctl.yaml", name, "1" * 40, "100644",
+                                "old.ctl.yaml", "0" * 40, "100644"], endless)
+    assert rc == 0, err
+    assert "not a regular file" in out
+
+
+@needs_git
+def test_diff_git_and_report_changes_since_refuse_a_committed_link_to_an_endless_device(tmp_path):
+    repo = tmp_path / "repo"
+    repo.mkdir()
+    git(repo, "init", "-q")
+    (repo / "pump.ctl.yaml").write_text(CLEAN)
+    (repo / "wash.ctl.yaml").write_text(CLEAN)
+    git(repo, "add", ".")
+    git(repo, "commit", "-qm", "first")
+    os.remove(repo / "pump.ctl.yaml")
+    os.symlink("/dev/zero", repo / "pump.ctl.yaml")   # committed as a link: git reads the link, ctllint must not follow it
+    git(repo, "add", ".")
+    git(repo, "commit", "-qm", "link")
+    os.remove(repo / "wash.ctl.yaml")
+    os.mkfifo(repo / "wash.ctl.yaml")                  # and a pipe in the working tree
+    for args in (["diff", "--git", "HEAD~1"], ["diff", "--git", "HEAD~1..HEAD"], ["diff", "--git", "HEAD"]):
+        rc, out, err = run_bounded(args, repo)
+        assert rc == 0, (args, err)
+    rc, out, err = run_bounded(["diff", "--git", "HEAD"], repo)
+    assert "wash.ctl.yaml:1:1" in out and "not a regular file" in out
+    rc, out, err = run_bounded(["report", ".", "--changes-since", "HEAD~1", "-o", "r.html"], repo)
+    assert rc == 1, err
+    page = (repo / "r.html").read_text()
+    assert "not a regular file" in page
+
+
+@needs_git
+def test_diff_git_refuses_an_oversized_blob_without_reading_it(tmp_path, monkeypatch, clean_env):
+    repo = tmp_path / "repo"
+    repo.mkdir()
+    git(repo, "init", "-q")
+    (repo / ".ctllint.yaml").write_text("limits: {max_file_bytes: 2000}\n")
+    (repo / "pump.ctl.yaml").write_text(CLEAN + "# padding\n" * 300)   # about 3.4 kB, above the limit
+    git(repo, "add", ".")
+    git(repo, "commit", "-qm", "first")
+    (repo / "pump.ctl.yaml").write_text(CLEAN)
+    rc, out, err = run_bounded(["diff", "--git", "HEAD"], repo)
+    assert rc == 0, err
+    assert "pump.ctl.yaml:1:1" in out and "above the limit" in out and "limits.max_file_bytes" in out
+    # and the blob's bytes never came into memory: no git command printed it
+    printed = []
+    real_run = subprocess.run
+
+    def recording_run(cmd, *a, **k):
+        done = real_run(cmd, *a, **k)
+        if isinstance(done.stdout, bytes) and len(done.stdout) > 2000:
+            printed.append(cmd)
+        return done
+
+    monkeypatch.chdir(repo)
+    monkeypatch.setattr(subprocess, "run", recording_run)
+    rc, out, err = run_cli("diff", "--git", "HEAD")
+    assert rc == 0 and "above the limit" in out, err
+    assert printed == [], printed

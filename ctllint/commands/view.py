@@ -262,11 +262,11 @@ def _changes_since(rev: str, base: tuple[str, str], targets, files, checker: Che
     gone = sorted((old, new) for old, new in pairs if old is not None and old != new and new not in in_report)
     tree = _git_cmd(["ls-tree", "-r", "-z", "--name-only", "--full-tree", sha], cwd=top).stdout
     in_old = set(tree.decode("utf-8", "surrogateescape").split("\0"))
-    uses_changed = dict(_dependents(pairs, sha, None, top, top, [])) if pairs else {}
+    uses_changed = dict(_dependents(pairs, sha, None, top, top, [], cfg.limits)) if pairs else {}
     label, now = rev, "working tree"
     out = Changes(rev, sha)
     with tempfile.TemporaryDirectory(prefix="ctllint-report-") as tmp:
-        old_tree = _RevisionTree(sha, top, os.path.join(tmp, "old"))
+        old_tree = _RevisionTree(sha, top, os.path.join(tmp, "old"), cfg.limits)
 
         def old_side(old_rel: str):
             real = old_tree.write(old_rel)
