@@ -676,8 +676,10 @@ class _Loader:
             real = os.path.realpath(target)
             if os.path.commonpath([root, real]) != root:
                 self.error(item, f"use path '{rel}' leaves the repository ({root})")
+                self.used.append(target)  # recorded for the cache: a later fix must be seen
                 continue
             if not os.path.isfile(real):
+                self.used.append(target)  # missing today: creating it later changes the result
                 if os.path.lexists(target) and not os.path.exists(target):
                     self.error(item, f"use path '{rel}' is a broken or looping symbolic link")
                 else:

@@ -1,14 +1,24 @@
 """Run a check over many files: discovery, cache, worker processes, merging.
 
 The cache keeps each file's findings under a key made of the file's bytes,
-the bytes of every file it ``use``s, ctllint's version, the plugins (their
-module files' sizes and times), and the rule settings and limits of the
-run. It is never stale after an edit, because any of those changing
+the state of every path it ``use``s (the bytes of each used file, and the
+paths that were missing or refused, so that creating or fixing one later
+counts), ctllint's version, the plugins (the bytes of every file of a
+plugin package, not only its top module), and the rule settings and limits
+of the run. It is never stale after an edit, because any of those changing
 changes the key; entries are written atomically, so two runs can share it.
+
+An entry is trusted only when it is whole, has exactly the shape written
+here, and carries the HMAC of the user's own key (``entry-key`` in the
+user's cache folder, never in a repository): a corrupt, truncated or forged
+entry is a miss, never a crash or hidden findings. Files are hashed only
+when regular and within ``limits.max_file_bytes`` (the size is taken
+first), and a write that fails (a full disk) leaves no temporary file.
 """
 from __future__ import annotations
 
 import hashlib
+import hmac
 import json
 import os
 import stat
@@ -49,12 +59,110 @@ def _regular_file(path: str) -> bool:
         return False
 
 
-def _digest(path: str) -> str | None:
-    if not _regular_file(path):
+def _digest(path: str, max_bytes: int | None = None) -> str | None:
+    """SHA-256 of a regular file's bytes, read in blocks; None when it is not one or is above ``max_bytes``
+    (the size is taken first: an oversized file is never read to be hashed)."""
+    try:
+        info = os.stat(path)
+    except (OSError, ValueError):
         return None
+    if not stat.S_ISREG(info.st_mode) or (max_bytes is not None and info.st_size > max_bytes):
+        return None
+    h = hashlib.sha256()
     try:
         with open(path, "rb") as handle:
-            return hashlib.sha256(handle.read()).hexdigest()
+            for block in iter(lambda: handle.read(1 << 20), b""):
+                h.update(block)
+                if max_bytes is not None and handle.tell() > max_bytes:  # grew while read
+                    return None
+    except OSError:
+        return None
+    return h.hexdigest()
+
+
+def _state(path: str, max_bytes: int | None = None) -> str:
+    """What a used path is now, for the cache: where it leads (links followed) and its bytes' digest, or "missing".
+
+    A ``use`` path that was missing, a broken link or a folder is recorded too,
+    so that creating or fixing it later makes the entry stale."""
+    try:
+        real = os.path.realpath(path)
+    except (OSError, ValueError):
+        return "unreadable"
+    if not os.path.lexists(path):
+        return "missing"
+    return f"{real}\0{_digest(real, max_bytes) or 'not a readable regular file'}"
+
+
+def _plugin_files(module_file: str) -> list[str]:
+    """The files that make up a plugin: a package's every file (its other modules, data), or the one module."""
+    if os.path.basename(module_file) != "__init__.py":
+        return [module_file]
+    folder = os.path.dirname(module_file)
+    out = []
+    for here, dirs, files in os.walk(folder):
+        dirs[:] = sorted(d for d in dirs if d != "__pycache__" and not d.startswith("."))
+        out.extend(os.path.join(here, f) for f in sorted(files) if not f.endswith((".pyc", ".pyo")))
+        if len(out) > 10_000:  # not a plugin package: a folder holding everything; stop counting
+            break
+    return out
+
+
+_ENTRY_KEYS = {"digest", "used", "loaded", "diagnostics", "target", "fingerprint"}
+_DIAG_KEYS = {"path": str, "line": int, "column": int, "rule": str, "severity": int, "message": str, "subject": str}
+
+
+def _valid_entry(data: object) -> bool:
+    """Whether a cache entry has exactly the shape ``put`` writes; anything else is a miss."""
+    if not isinstance(data, dict) or set(data) != _ENTRY_KEYS or not isinstance(data["loaded"], bool):
+        return False
+    used = data["used"]
+    if not isinstance(used, list) or not all(isinstance(u, list) and len(u) == 2 and all(isinstance(x, str) for x in u) for u in used):
+        return False
+    diags = data["diagnostics"]
+    if not isinstance(diags, list):
+        return False
+    levels = {int(s) for s in Severity}
+    for d in diags:
+        if not isinstance(d, dict) or set(d) != set(_DIAG_KEYS):
+            return False
+        if not all(isinstance(d[k], t) and not isinstance(d[k], bool) for k, t in _DIAG_KEYS.items()):
+            return False
+        if d["line"] < 1 or d["column"] < 1 or d["severity"] not in levels:
+            return False
+    return True
+
+
+def _secret(folder: str) -> bytes | None:
+    """The key that signs cache entries, kept in the user's own cache folder (never in a repository).
+
+    A repository can name a cache folder of its own (``cache: FOLDER``) and
+    commit entries into it; without this key they are misses, so a forged
+    entry cannot hide findings. None (no caching) when it cannot be had."""
+    path = os.path.join(folder, "entry-key")
+    try:
+        with open(path, "rb") as handle:
+            key = handle.read(65)
+        if len(key) == 32:
+            return key
+    except OSError:
+        pass
+    try:
+        os.makedirs(folder, exist_ok=True)
+        tmp = f"{path}.{os.getpid()}.tmp"
+        fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
+        try:
+            with os.fdopen(fd, "wb") as handle:
+                handle.write(os.urandom(32))
+            try:
+                os.link(tmp, path)  # the first writer wins; the others read its key
+            except FileExistsError:
+                pass
+        finally:
+            os.unlink(tmp)
+        with open(path, "rb") as handle:
+            key = handle.read(65)
+        return key if len(key) == 32 else None
     except OSError:
         return None
 
@@ -62,20 +170,22 @@ def _digest(path: str) -> str | None:
 class ResultCache:
     """Per-file results on disk, keyed by everything that can change them."""
 
-    def __init__(self, folder: str, fingerprint: str):
+    def __init__(self, folder: str, fingerprint: str, max_bytes: int | None = None, key: bytes | None = None):
         self.folder = folder
         self.fingerprint = fingerprint
+        self.max_bytes = max_bytes
+        self.key = key if key is not None else _secret(default_cache_dir())
 
     @staticmethod
     def fingerprint_of(host: PluginHost, settings: RuleSettings, cfg: Config) -> str:
         parts: list[str] = [f"ctllint {__version__}", f"cache {CACHE_FORMAT}", sys.version]
         for name, plugin in sorted(host.pm.list_name_plugin(), key=lambda p: str(p[0])):
             module_file = getattr(plugin, "__file__", None)
-            stamp = ""
-            if module_file and os.path.exists(module_file):
-                st = os.stat(module_file)
-                stamp = f"{st.st_size}:{st.st_mtime_ns}"
-            parts.append(f"plugin {name} {module_file} {stamp}")
+            parts.append(f"plugin {name} {module_file}")
+            if isinstance(module_file, str) and os.path.exists(module_file):
+                # every file of a plugin package, by its bytes: an edit in any of its modules is a new key
+                for f in _plugin_files(module_file):
+                    parts.append(f"  {f} {_digest(f, 64 << 20) or 'unreadable'}")
         parts.append(json.dumps({"enabled": settings.enabled, "sev": {k: int(v) for k, v in sorted(settings.severities.items())},
                                  "options": settings.options, "limit": settings.time_limit}, sort_keys=True, default=str))
         parts.append(json.dumps(asdict(cfg.limits), sort_keys=True))
@@ -86,39 +196,66 @@ class ResultCache:
         key = hashlib.sha256(f"{os.path.abspath(target.path)}\0{target.shown}\0{self.fingerprint}".encode()).hexdigest()
         return os.path.join(self.folder, key[:2], key[2:34] + ".json")
 
+    def _seal(self, body: str) -> str:
+        return hmac.new(self.key or b"", body.encode("utf-8"), hashlib.sha256).hexdigest()
+
     def get(self, target: Target) -> FileResult | None:
+        """The cached result, or None: a missing, unreadable, corrupt, unsigned or mismatched entry is a miss."""
+        if self.key is None:
+            return None
         entry = self._entry_path(target)
         try:
-            with open(entry, encoding="utf-8") as handle:
-                data = json.load(handle)
-        except (OSError, ValueError):
-            return None
-        if data.get("digest") != _digest(target.path):
-            return None
-        for used, digest in data.get("used", []):
-            if _digest(used) != digest:
+            info = os.stat(entry)
+            if not stat.S_ISREG(info.st_mode) or info.st_size > 64 << 20:
                 return None
-        diags = [Diagnostic(d["path"], d["line"], d["column"], d["rule"], Severity(d["severity"]), d["message"], d.get("subject", "")) for d in data["diagnostics"]]
-        return FileResult(target.shown, diags, [u for u, _ in data.get("used", [])], data.get("loaded", True))
+            with open(entry, encoding="utf-8") as handle:
+                sealed = json.load(handle)
+            if not isinstance(sealed, dict) or set(sealed) != {"seal", "entry"} or not isinstance(sealed["seal"], str):
+                return None
+            data = sealed["entry"]
+            if not hmac.compare_digest(sealed["seal"], self._seal(json.dumps(data, sort_keys=True))):
+                return None
+        except (OSError, ValueError, RecursionError, TypeError):
+            return None
+        if not _valid_entry(data) or data["target"] != os.path.abspath(target.path) or data["fingerprint"] != self.fingerprint:
+            return None
+        if data["digest"] != _digest(target.path, self.max_bytes):
+            return None
+        for used, state in data["used"]:
+            if _state(used, self.max_bytes) != state:
+                return None
+        diags = [Diagnostic(d["path"], d["line"], d["column"], d["rule"], Severity(d["severity"]), d["message"], d["subject"]) for d in data["diagnostics"]]
+        return FileResult(target.shown, diags, [u for u, _ in data["used"]], data["loaded"])
 
     def put(self, target: Target, digest: str | None, result: FileResult) -> None:
-        if digest is None or any(d.rule == "plugin-error" for d in result.diagnostics):
+        if self.key is None or digest is None or any(d.rule == "plugin-error" for d in result.diagnostics):
             return  # a plugin fault (a time limit, say) may not repeat: do not keep it
         data = {
+            "target": os.path.abspath(target.path),
+            "fingerprint": self.fingerprint,
             "digest": digest,
-            "used": [[u, _digest(u)] for u in result.used_files],
+            "used": [[u, _state(u, self.max_bytes)] for u in result.used_files],
             "loaded": result.loaded,
             "diagnostics": [{"path": d.path, "line": d.line, "column": d.column, "rule": d.rule, "severity": int(d.severity), "message": d.message, "subject": d.subject} for d in result.diagnostics],
         }
         entry = self._entry_path(target)
+        tmp = None
         try:
+            sealed = {"seal": self._seal(json.dumps(data, sort_keys=True)), "entry": data}
             os.makedirs(os.path.dirname(entry), exist_ok=True)
             fd, tmp = tempfile.mkstemp(dir=os.path.dirname(entry), suffix=".tmp")
             with os.fdopen(fd, "w", encoding="utf-8") as handle:
-                json.dump(data, handle)
+                json.dump(sealed, handle)
             os.replace(tmp, entry)
-        except OSError:
-            pass  # a cache that cannot be written is only slower
+            tmp = None
+        except (OSError, ValueError):
+            pass  # a cache that cannot be written (a full disk, say) is only slower
+        finally:
+            if tmp is not None:  # never leave a half-written temporary file behind
+                try:
+                    os.unlink(tmp)
+                except OSError:
+                    pass
 
 
 _WORKER: Checker | None = None
@@ -236,7 +373,7 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
         folder = cfg.cache if isinstance(cfg.cache, str) else default_cache_dir()
         if isinstance(cfg.cache, str) and not os.path.isabs(folder):
             folder = os.path.join(cfg.folder, folder)
-        cache = ResultCache(folder, ResultCache.fingerprint_of(host, settings, cfg))
+        cache = ResultCache(folder, ResultCache.fingerprint_of(host, settings, cfg), cfg.limits.max_file_bytes)
 
     results: dict[int, FileResult] = {}
     todo: list[int] = []
@@ -248,7 +385,7 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
         else:
             todo.append(i)
             if cache:
-                digests[i] = _digest(t.path)
+                digests[i] = _digest(t.path, cfg.limits.max_file_bytes)
     cached = len(results)
 
     jobs = jobs or os.cpu_count() or 1
