@@ -108,7 +108,7 @@ def setup(args: argparse.Namespace, trust_local: bool | None = None) -> tuple[Co
     cfg = load_config(path or find_config(os.getcwd()))
     if trust_local is None:
         trust_local = bool(getattr(args, "plugins", False))
-    where = printable(os.path.relpath(cfg.path) if cfg.path and not os.path.relpath(cfg.path).startswith("..") else str(cfg.path))
+    where = _config_shown(cfg.path) if cfg.plugins else ""
     if cfg.plugins and not trust_local:
         print(f"ctllint: local plugins named in {where} not loaded (pass --plugins to run them): "
               f"{', '.join(printable(p) for p in cfg.plugins)}", file=sys.stderr)
@@ -117,6 +117,12 @@ def setup(args: argparse.Namespace, trust_local: bool | None = None) -> tuple[Co
     if cfg.plugins:
         print(f"ctllint: loaded local plugins from {where}: {', '.join(printable(p) for p in cfg.plugins)}", file=sys.stderr)
     return cfg, host
+
+
+def _config_shown(path: str | None) -> str:
+    from .discover import display_path
+
+    return printable(display_path(path)) if path else "the configuration"
 
 
 def settings_for(cfg: Config, host: PluginHost, select: list[str] | None, ignore: list[str]) -> RuleSettings:
