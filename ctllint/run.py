@@ -140,13 +140,9 @@ def _secret(folder: str) -> bytes | None:
     commit entries into it; without this key they are misses, so a forged
     entry cannot hide findings. None (no caching) when it cannot be had."""
     path = os.path.join(folder, "entry-key")
-    try:
-        with open(path, "rb") as handle:
-            key = handle.read(65)
-        if len(key) == 32:
-            return key
-    except OSError:
-        pass
+    key = _read_key(path)
+    if key is not None:
+        return key
     try:
         os.makedirs(folder, exist_ok=True)
         tmp = f"{path}.{os.getpid()}.tmp"
@@ -160,11 +156,27 @@ def _secret(folder: str) -> bytes | None:
                 pass
         finally:
             os.unlink(tmp)
-        with open(path, "rb") as handle:
-            key = handle.read(65)
+        return _read_key(path)
+    except OSError:
+        return None
+
+
+def _read_key(path: str) -> bytes | None:
+    """The 32 bytes of a regular key file (a pipe or device in its place is no key), else None."""
+    try:
+        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+    except (OSError, ValueError):
+        return None
+    try:
+        info = os.fstat(fd)
+        if not stat.S_ISREG(info.st_mode) or info.st_size != 32:
+            return None
+        key = os.read(fd, 33)
         return key if len(key) == 32 else None
     except OSError:
         return None
+    finally:
+        os.close(fd)
 
 
 class ResultCache:

@@ -249,3 +249,15 @@ def test_a_full_disk_leaves_no_temporary_file(project, capsys, monkeypatch):
     monkeypatch.setattr(run.json, "dump", real_dump)
     assert list((project / "cache").rglob("*.tmp")) == []
     assert entries(project) == []
+
+
+def test_a_key_file_that_is_a_pipe_turns_the_cache_off_instead_of_blocking(project):
+    folder = project / "cache" / "ctllint"
+    folder.mkdir(parents=True)
+    os.mkfifo(folder / "entry-key")
+    env = dict(os.environ, XDG_CACHE_HOME=str(project / "cache"))
+    env.pop("CTLLINT_NO_CACHE", None)
+    done = subprocess.run([sys.executable, "-m", "ctllint", "check", "--format", "json", "-j", "1", "a.ctl.yaml"],
+                          cwd=project, env=env, capture_output=True, text=True, timeout=60)
+    assert done.returncode == 0 and json.loads(done.stdout)["diagnostics"] == [], done.stderr
+    assert entries(project) == []
