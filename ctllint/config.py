@@ -85,10 +85,11 @@ def _has_tool_table(path: str) -> bool:
     not UTF-8 (or not TOML at all) and names no ctllint table is passed
     over; one that does name it is read, and its problem reported (exit 2).
     """
+    from .safeio import ReadProblem, read_bytes
+
     try:
-        with open(path, "rb") as handle:
-            return re.search(rb"^\s*\[tool\.ctllint(\.|\])", handle.read(), re.M) is not None
-    except OSError:
+        return re.search(rb"^\s*\[tool\.ctllint(\.|\])", read_bytes(path), re.M) is not None
+    except ReadProblem:  # not a regular file, or above limits.max_file_bytes' default: not ours to read
         return False
 
 
@@ -107,8 +108,7 @@ def load_config(path: str | None) -> Config:
 def _read_toml(path: str) -> tuple[dict[str, Any], dict[str, int]]:
     import tomllib
 
-    with open(path, "rb") as handle:
-        raw = handle.read()
+    raw = _read_bytes(path)
     try:
         doc = tomllib.loads(raw.decode("utf-8"))
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
@@ -135,10 +135,19 @@ def _read_toml(path: str) -> tuple[dict[str, Any], dict[str, int]]:
     return data, lines
 
 
+def _read_bytes(path: str) -> bytes:
+    """A configuration file's bytes: a regular file within the default size limit, else a ConfigError."""
+    from .safeio import ReadProblem, read_bytes
+
+    try:
+        return read_bytes(path)
+    except ReadProblem as exc:
+        raise ConfigError(path, 1, f"cannot read the configuration: {exc}") from None
+
+
 def _read_yaml(path: str) -> tuple[dict[str, Any], dict[str, int]]:
     try:
-        with open(path, encoding="utf-8") as handle:
-            text = handle.read()
+        text = _read_bytes(path).decode("utf-8")
         node = compose(text, Limits())
         if node is None:
             return {}, {}

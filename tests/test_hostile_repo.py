@@ -532,3 +532,17 @@ def test_a_file_that_is_not_a_schematic_is_quoted_at_most_in_a_short_excerpt(tmp
     for d in found:
         # at most a short excerpt: no run of 25 characters of the secret in any message
         assert not any(SECRET[i:i + 25] in d["message"] for i in range(len(SECRET) - 24)), d["message"]
+
+
+@pytest.mark.parametrize("name", [".ctllint.yaml", "pyproject.toml"])
+def test_an_endless_configuration_file_is_not_read(tmp_path, name):
+    """A sparse 64 GB configuration file (one holding a ctllint table, for pyproject.toml): exit 2 or passed over, never read."""
+    (tmp_path / "pump.ctl.yaml").write_text(BROKEN)
+    with open(tmp_path / name, "wb") as handle:
+        handle.write(b"[tool.ctllint]\n" if name == "pyproject.toml" else b"fail-on: error\n")
+        handle.truncate(64 << 30)
+    rc, out, err = run_bounded(["check", "pump.ctl.yaml"], tmp_path)
+    if name == ".ctllint.yaml":
+        assert rc == 2 and "above the limit" in err, err
+    else:  # too large to be a pyproject.toml ctllint reads: passed over
+        assert rc == 1 and "stop-normally-closed" in out, err
