@@ -362,6 +362,7 @@ def refuse_file_named_like_option(words: list[str]) -> None:
             raise UsageError(f"ctllint: '{printable(word)}' is both an option and the name of a file; put -- before file names "
                              f"(ctllint check -- FILE...)")
 
+
 class Terminated(KeyboardInterrupt):
     """SIGTERM, raised in the main thread so that workers are stopped and temporary files removed.
 
