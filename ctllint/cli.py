@@ -86,18 +86,48 @@ def add_config_args(p: argparse.ArgumentParser) -> None:
     p.add_argument("--config", metavar="FILE", help="configuration file (default: .ctllint.yaml or [tool.ctllint] in pyproject.toml, found by walking up from the current folder)")
 
 
-def setup(args: argparse.Namespace) -> tuple[Config, PluginHost]:
+def add_plugins_arg(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--plugins", action="store_true",
+                   help="also load the local plugins named under plugins: in the configuration (Python code of the repository; "
+                        "only for a repository you trust). Without it they are not run")
+
+
+def setup(args: argparse.Namespace, trust_local: bool | None = None) -> tuple[Config, PluginHost]:
+    """Configuration and plugins for a command.
+
+    Local plugins (``plugins:`` in the configuration) are Python files of the
+    repository: running them is running the repository's code. ``check``,
+    ``rules`` and ``explain`` load them and say so on standard error; the
+    commands that only show a circuit (diff, draw, report, xref, simulate,
+    schema) load them only with ``--plugins`` (``trust_local`` False unless
+    the flag was given), and say when they were left out.
+    """
     path = getattr(args, "config", None)
     if path is not None and not os.path.isfile(path):
         raise UsageError(f"ctllint: configuration file '{path}' does not exist")
     cfg = load_config(path or find_config(os.getcwd()))
+    if trust_local is None:
+        trust_local = bool(getattr(args, "plugins", False))
+    where = _config_shown(cfg.path) if cfg.plugins else ""
+    if cfg.plugins and not trust_local:
+        print(f"ctllint: local plugins named in {where} not loaded (pass --plugins to run them): "
+              f"{', '.join(printable(p) for p in cfg.plugins)}", file=sys.stderr)
+        cfg.untrusted_plugins, cfg.plugins = cfg.plugins, []
     host = PluginHost.create(local_plugins=cfg.plugins)
+    if cfg.plugins:
+        print(f"ctllint: loaded local plugins from {where}: {', '.join(printable(p) for p in cfg.plugins)}", file=sys.stderr)
     return cfg, host
+
+
+def _config_shown(path: str | None) -> str:
+    from .discover import display_path
+
+    return printable(display_path(path)) if path else "the configuration"
 
 
 def settings_for(cfg: Config, host: PluginHost, select: list[str] | None, ignore: list[str]) -> RuleSettings:
     try:
-        enabled, severities, options = resolve_rules(cfg, host.rules, select, ignore)
+        enabled, severities, options = resolve_rules(cfg, host.rules, select, ignore, lenient=bool(cfg.untrusted_plugins))
     except ValueError as exc:
         raise UsageError(f"ctllint: {exc}") from None
     return RuleSettings(enabled, severities, options, time_limit=cfg.limits.plugin_seconds)
@@ -148,7 +178,7 @@ def write_output(text: str, output: str | None) -> None:
         # A device or pipe (/dev/null, /dev/stdout, a FIFO): write into it; a
         # rename would replace the device itself with a plain file.
         try:
-            with open(output, "w", encoding="utf-8", newline="\n") as handle:
+            with open(output, "w", encoding="utf-8", errors="backslashreplace", newline="\n") as handle:
                 handle.write(text)
         except OSError as exc:
             raise UsageError(f"ctllint: cannot write {output}: {exc.strerror or exc}") from None
@@ -161,7 +191,8 @@ def write_output(text: str, output: str | None) -> None:
         mode = 0o666 & ~umask
     fd, tmp = tempfile.mkstemp(prefix=".ctllint-", suffix=".tmp", dir=folder)
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
+        # backslashreplace: a lone surrogate left in some message is shown escaped, never a crash
+        with os.fdopen(fd, "w", encoding="utf-8", errors="backslashreplace", newline="\n") as handle:
             handle.write(text)
         os.chmod(tmp, mode)
         os.replace(tmp, output)
@@ -197,7 +228,7 @@ def _configure_check(p: argparse.ArgumentParser) -> None:
 def _run_check(args: argparse.Namespace) -> int:
     from .run import run_check
 
-    cfg, host = setup(args)
+    cfg, host = setup(args, trust_local=True)
     if args.format not in host.formats:
         raise UsageError(f"ctllint: unknown format '{args.format}' (available: {', '.join(sorted(host.formats))})")
     settings = settings_for(cfg, host, split_names(args.select) or None, split_names(args.ignore))
@@ -266,7 +297,7 @@ def rules_table(host: PluginHost, fmt: str = "text") -> str:
 
 
 def _run_rules(args: argparse.Namespace) -> int:
-    _, host = setup(args)
+    _, host = setup(args, trust_local=True)
     sys.stdout.write(rules_table(host, args.format))
     for p in host.problems:
         print(f"ctllint: plugin-error: {p.plugin}: {p.message}", file=sys.stderr)
@@ -299,7 +330,7 @@ def explain_text(rule: Any) -> str:
 
 
 def _run_explain(args: argparse.Namespace) -> int:
-    _, host = setup(args)
+    _, host = setup(args, trust_local=True)
     rule = host.rules.get(args.rule)
     if rule is None:
         import difflib
@@ -315,13 +346,56 @@ command("explain", "print a rule's documentation: why, source, a failing and a p
 
 # -- main -----------------------------------------------------------------------
 
+def refuse_file_named_like_option(words: list[str]) -> None:
+    """A word before ``--`` that reads as an option but names an existing file is refused.
+
+    pre-commit and git append file names to a command line; a file named
+    ``--write-baseline=.ctl.yaml`` or ``-o.ctl.yaml`` would otherwise be taken
+    as an option (and could turn a failing check into a pass). The hook and
+    the diff driver put ``--`` before the names; this catches a command line
+    that forgot it. A usage error (exit 2), never a silent pass.
+    """
+    for word in words:
+        if word == "--":
+            return
+        if len(word) > 1 and word.startswith("-") and os.path.lexists(word):
+            raise UsageError(f"ctllint: '{printable(word)}' is both an option and the name of a file; put -- before file names "
+                             f"(ctllint check -- FILE...)")
+
+
+class Terminated(KeyboardInterrupt):
+    """SIGTERM, raised in the main thread so that workers are stopped and temporary files removed.
+
+    A KeyboardInterrupt, so that code which lets Ctrl-C through lets this through too.
+    """
+
+
+def _on_sigterm(signum: int, frame: Any) -> None:
+    raise Terminated()
+
+
 def main(argv: list[str] | None = None) -> int:
+    import signal
+    import threading
+
+    previous = None
+    if threading.current_thread() is threading.main_thread():
+        previous = signal.signal(signal.SIGTERM, _on_sigterm)
+    try:
+        return _main(argv)
+    finally:
+        if previous is not None:
+            signal.signal(signal.SIGTERM, previous)
+
+
+def _main(argv: list[str] | None) -> int:
     from . import commands
 
     words = sys.argv[1:] if argv is None else argv
     commands.load(next((w for w in words if not w.startswith("-")), ""))
     parser = build_parser()
     try:
+        refuse_file_named_like_option(words)
         args = parser.parse_args(argv)
         if not args.command:
             parser.print_help()
@@ -333,6 +407,9 @@ def main(argv: list[str] | None = None) -> int:
     except ConfigError as exc:
         print(f"ctllint: configuration error: {exc}", file=sys.stderr)
         return EXIT_USAGE
+    except Terminated:
+        print("ctllint: terminated", file=sys.stderr)
+        return 143  # 128 + SIGTERM, as a shell reports it
     except KeyboardInterrupt:
         print("ctllint: interrupted", file=sys.stderr)
         return 130

@@ -55,6 +55,7 @@ class Config:
     limits: Limits = field(default_factory=Limits)
     cache: bool | str = True
     jobs: int | None = None
+    untrusted_plugins: list[str] = field(default_factory=list)  # named under plugins: but not loaded (no --plugins)
     lines: dict[str, int] = field(default_factory=dict)  # "rules.NAME.KEY" -> line, for messages
 
     def line_of(self, key: str) -> int:
@@ -78,10 +79,17 @@ def find_config(start: str) -> str | None:
 
 
 def _has_tool_table(path: str) -> bool:
+    """Whether pyproject.toml has a ``[tool.ctllint]`` table, looked for in its bytes.
+
+    Any pyproject.toml above the current folder is looked at, so one that is
+    not UTF-8 (or not TOML at all) and names no ctllint table is passed
+    over; one that does name it is read, and its problem reported (exit 2).
+    """
+    from .safeio import ReadProblem, read_bytes
+
     try:
-        with open(path, encoding="utf-8") as handle:
-            return re.search(r"^\s*\[tool\.ctllint(\.|\])", handle.read(), re.M) is not None
-    except OSError:
+        return re.search(rb"^\s*\[tool\.ctllint(\.|\])", read_bytes(path), re.M) is not None
+    except ReadProblem:  # not a regular file, or above limits.max_file_bytes' default: not ours to read
         return False
 
 
@@ -100,8 +108,7 @@ def load_config(path: str | None) -> Config:
 def _read_toml(path: str) -> tuple[dict[str, Any], dict[str, int]]:
     import tomllib
 
-    with open(path, "rb") as handle:
-        raw = handle.read()
+    raw = _read_bytes(path)
     try:
         doc = tomllib.loads(raw.decode("utf-8"))
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
@@ -128,10 +135,19 @@ def _read_toml(path: str) -> tuple[dict[str, Any], dict[str, int]]:
     return data, lines
 
 
+def _read_bytes(path: str) -> bytes:
+    """A configuration file's bytes: a regular file within the default size limit, else a ConfigError."""
+    from .safeio import ReadProblem, read_bytes
+
+    try:
+        return read_bytes(path)
+    except ReadProblem as exc:
+        raise ConfigError(path, 1, f"cannot read the configuration: {exc}") from None
+
+
 def _read_yaml(path: str) -> tuple[dict[str, Any], dict[str, int]]:
     try:
-        with open(path, encoding="utf-8") as handle:
-            text = handle.read()
+        text = _read_bytes(path).decode("utf-8")
         node = compose(text, Limits())
         if node is None:
             return {}, {}
@@ -230,12 +246,15 @@ def _build(path: str, data: Any, lines: dict[str, int]) -> Config:
     return cfg
 
 
-def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ignore: list[str]) -> tuple[list[str], dict[str, Severity], dict[str, dict[str, Any]]]:
+def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ignore: list[str],
+                  lenient: bool = False) -> tuple[list[str], dict[str, Severity], dict[str, dict[str, Any]]]:
     """Enabled rule names, severity overrides and options, validated against the registered rules.
 
     ``rules`` maps names to Rule values. A name in select/ignore may be a
     rule or a plugin. Raises ConfigError (or ValueError for command-line
-    names) naming what is unknown.
+    names) naming what is unknown. ``lenient``: the configuration's local
+    plugins were not loaded, so names in the configuration that no loaded
+    plugin registered are passed over (they may be those plugins' rules).
     """
     plugins = {r.plugin for r in rules.values()}
 
@@ -247,6 +266,8 @@ def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ig
             elif item in plugins:
                 out.update(n for n, r in rules.items() if r.plugin == item)
             elif item in ("format", "plugin-error", "suppression"):
+                continue
+            elif lenient and not from_cli:
                 continue
             else:
                 hint = _hint(item, list(rules) + sorted(plugins))
@@ -268,6 +289,8 @@ def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ig
     options = {name: {k: o.default for k, o in rule.options.items()} for name, rule in rules.items()}
     for name, settings in cfg.rules.items():
         where = f"rules.{name}"
+        if name not in rules and lenient:
+            continue
         if name not in rules:
             hint = _hint(name, list(rules))
             raise ConfigError(cfg.path or "?", cfg.line_of(where), f"unknown rule '{name}' under rules" + (f" (did you mean '{hint}'?)" if hint else ""))

@@ -1005,13 +1005,22 @@ class Revision:
     def exists(self) -> bool:
         return self.text is not None or self.real_path is not None
 
-    def read_text(self) -> str:
+    def read_text(self, limits: "Limits | None" = None) -> str:
+        """The text for a line diff: a regular file within the size limit, else nothing (its load error says why)."""
         if self.text is not None:
             return self.text
         if self.real_path is None:
             return ""
-        with open(self.real_path, encoding="utf-8", errors="replace") as handle:
-            return handle.read()
+        from .loader import _link_out_of_repository
+        from .safeio import ReadProblem, read_bytes
+
+        if _link_out_of_repository(self.real_path) is not None:
+            return ""  # as loading it: a link out of the repository is never read
+        try:
+            data = read_bytes(self.real_path, limits)
+        except ReadProblem:
+            return ""
+        return data.decode("utf-8", errors="replace")
 
 
 def _load(rev: Revision, checker: "Checker | None") -> LoadResult:
@@ -1044,8 +1053,9 @@ def diff_revisions(old: Revision, new: Revision, checker: "Checker | None" = Non
         out.load_errors = errors
         for side in errors:
             out.notes.append(f"the {side} revision does not load, so only a line diff is shown")
-        a = old.read_text().splitlines() if old.exists else []
-        b = new.read_text().splitlines() if new.exists else []
+        limits = checker.limits if checker else None
+        a = old.read_text(limits).splitlines() if old.exists else []
+        b = new.read_text(limits).splitlines() if new.exists else []
         out.text_diff = list(difflib.unified_diff(a, b, f"{old.label or 'old'}/{old.path}", f"{new.label or 'new'}/{new.path}", lineterm=""))
         return out
     sch_old = results["old"].schematic if results["old"] else None

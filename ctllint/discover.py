@@ -22,8 +22,23 @@ def display_path(path: str, cwd: str | None = None) -> str:
     try:
         rel = os.path.relpath(absolute, cwd)
     except ValueError:
-        return absolute
-    return absolute if rel.startswith("..") else rel
+        return text_name(absolute)
+    return text_name(absolute if rel.startswith("..") else rel)
+
+
+def text_name(path: str) -> str:
+    """A file name as text that any output can hold.
+
+    A name that is not valid UTF-8 reaches Python with its bad bytes as lone
+    surrogates, which no UTF-8 output (a report file, JSON, XML) can encode;
+    they are shown as ``\\xff`` escapes instead. The file is still opened by
+    its real name.
+    """
+    try:
+        path.encode("utf-8")
+        return path
+    except UnicodeEncodeError:
+        return os.fsencode(path).decode("utf-8", "backslashreplace")
 
 
 def is_schematic_name(name: str) -> bool:

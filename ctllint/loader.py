@@ -87,6 +87,31 @@ def find_repository_root(path: str) -> str:
         probe = parent
 
 
+def _link_out_of_repository(path: str) -> str | None:
+    """The repository root when ``path`` is (or passes through) a symbolic link leading out of it, else None.
+
+    A pull request can commit a link named like a schematic to any file of
+    the machine that checks it (a key, a token); such a file is never read,
+    so none of it can reach a report or a log.
+    """
+    try:
+        if not os.path.isfile(path):  # a device, pipe, folder or dangling link: read_text refuses it and says why
+            return None
+        root = os.path.realpath(find_repository_root(path))
+        real = os.path.realpath(path)
+        return None if os.path.commonpath([root, real]) == root else root
+    except (OSError, ValueError):  # a NUL in the path, another drive: read_text says why
+        return None
+
+
+def excerpt(text: str, limit: int = 20) -> str:
+    """A short, escaped excerpt of a value for a message: at most ``limit`` characters, control characters escaped."""
+    text = str(text)
+    short = text[:limit]
+    short = "".join(c if c.isprintable() else c.encode("unicode_escape").decode("ascii") for c in short)
+    return short + ("..." if len(text) > limit else "")
+
+
 # Real paths of the files whose ``use`` is being followed right now: a used
 # file that uses one of them back is a cycle, refused instead of recursed into.
 _USE_CHAIN: set[str] = set()
@@ -173,6 +198,9 @@ def load_file(
     """Load the schematic at ``path``; ``display_path`` is how messages name it."""
     limits = limits or Limits()
     shown = display_path or path
+    outside = _link_out_of_repository(path)
+    if outside is not None:
+        return LoadResult(None, [format_error(shown, 1, 1, f"is a symbolic link to a file outside the repository ({outside}), so it is not read")])
     text, problem = read_text(path, limits)
     if problem is not None:
         return LoadResult(None, [Diagnostic(shown, problem.line, problem.column, "format", Severity.ERROR, problem.message)])
@@ -366,6 +394,13 @@ class _Loader:
         return LoadResult(sch, sorted(set(diags)), self.used)
 
     def read_top(self, root: Node, sch: Schematic) -> None:
+        # A file that is not a schematic at all (a key, a token, a configuration
+        # file named like one) gives one finding that quotes nothing of it.
+        if not isinstance(root, MappingNode):
+            self.fail(root, f"not a ctllint schematic: the file is {_describe_value(scalar_value(root)) if isinstance(root, ScalarNode) else 'a list'}, "
+                            "not a mapping starting with 'ctllint: 1' (its text is not shown)")
+        if not any(isinstance(k, ScalarNode) and k.value == "ctllint" for k, _ in root.value):
+            self.fail(root, "missing 'ctllint: 1' (the format version) at the top level: not a ctllint schematic (its keys are not shown)")
         entries = self.mapping(root, "a schematic file")
         keys = {k: (kn, vn) for k, kn, vn in entries}
         for key, knode, _ in entries:
@@ -383,7 +418,7 @@ class _Loader:
         version = self.scalar(vnode, "ctllint")
         # Only the whole number 1 as written: 1.0, 01 or 0x1 are other values
         if version != FORMAT_VERSION or type(version) is not int or vnode.value.strip() != str(FORMAT_VERSION):
-            self.fail(vnode, f"format version '{vnode.value}' is not supported: this ctllint reads version {FORMAT_VERSION}")
+            self.fail(vnode, f"format version '{excerpt(vnode.value, 12)}' is not supported: this ctllint reads version {FORMAT_VERSION}")
         self.errors.extend(self.streamed_errors)
         device_file = "supplies" not in keys and "rungs" not in keys and "expect" not in keys and "use" not in keys and "devices" in keys
         sch.device_file = device_file
@@ -698,8 +733,10 @@ class _Loader:
             real = os.path.realpath(target)
             if os.path.commonpath([root, real]) != root:
                 self.error(item, f"use path '{rel}' leaves the repository ({root})")
+                self.used.append(target)  # recorded for the cache: a later fix must be seen
                 continue
             if not os.path.isfile(real):
+                self.used.append(target)  # missing today: creating it later changes the result
                 if os.path.lexists(target) and not os.path.exists(target):
                     self.error(item, f"use path '{rel}' is a broken or looping symbolic link")
                 else:
@@ -1067,7 +1104,7 @@ def _describe(node: Node) -> str:
         return "a mapping"
     if isinstance(node, SequenceNode):
         return "a list"
-    return _describe_value(scalar_value(node)) + f" '{node.value}'"
+    return _describe_value(scalar_value(node)) + f" '{excerpt(node.value)}'"
 
 
 def _describe_value(value: Any) -> str:

@@ -1,14 +1,24 @@
 """Run a check over many files: discovery, cache, worker processes, merging.
 
 The cache keeps each file's findings under a key made of the file's bytes,
-the bytes of every file it ``use``s, ctllint's version, the plugins (their
-module files' sizes and times), and the rule settings and limits of the
-run. It is never stale after an edit, because any of those changing
+the state of every path it ``use``s (the bytes of each used file, and the
+paths that were missing or refused, so that creating or fixing one later
+counts), ctllint's version, the plugins (the bytes of every file of a
+plugin package, not only its top module), and the rule settings and limits
+of the run. It is never stale after an edit, because any of those changing
 changes the key; entries are written atomically, so two runs can share it.
+
+An entry is trusted only when it is whole, has exactly the shape written
+here, and carries the HMAC of the user's own key (``entry-key`` in the
+user's cache folder, never in a repository): a corrupt, truncated or forged
+entry is a miss, never a crash or hidden findings. Files are hashed only
+when regular and within ``limits.max_file_bytes`` (the size is taken
+first), and a write that fails (a full disk) leaves no temporary file.
 """
 from __future__ import annotations
 
 import hashlib
+import hmac
 import json
 import os
 import stat
@@ -23,6 +33,7 @@ from .engine import Checker, FileResult
 from .host import PluginHost, RuleSettings, combine_rules
 from .loader import SCHEMATIC_SUFFIXES, find_repository_root
 from .model import Diagnostic, Severity
+from .yamlsafe import Limits
 
 CACHE_FORMAT = 2  # 2: entries keep the data of run-wide rules (Rule.collect)
 
@@ -48,33 +59,147 @@ def _regular_file(path: str) -> bool:
         return False
 
 
-def _digest(path: str) -> str | None:
-    if not _regular_file(path):
+def _digest(path: str, max_bytes: int | None = None) -> str | None:
+    """SHA-256 of a regular file's bytes, read in blocks; None when it is not one or is above ``max_bytes``
+    (the size is taken first: an oversized file is never read to be hashed)."""
+    try:
+        info = os.stat(path)
+    except (OSError, ValueError):
         return None
+    if not stat.S_ISREG(info.st_mode) or (max_bytes is not None and info.st_size > max_bytes):
+        return None
+    h = hashlib.sha256()
     try:
         with open(path, "rb") as handle:
-            return hashlib.sha256(handle.read()).hexdigest()
+            for block in iter(lambda: handle.read(1 << 20), b""):
+                h.update(block)
+                if max_bytes is not None and handle.tell() > max_bytes:  # grew while read
+                    return None
     except OSError:
         return None
+    return h.hexdigest()
+
+
+def _state(path: str, max_bytes: int | None = None) -> str:
+    """What a used path is now, for the cache: where it leads (links followed) and its bytes' digest, or "missing".
+
+    A ``use`` path that was missing, a broken link or a folder is recorded too,
+    so that creating or fixing it later makes the entry stale."""
+    try:
+        real = os.path.realpath(path)
+    except (OSError, ValueError):
+        return "unreadable"
+    if not os.path.lexists(path):
+        return "missing"
+    return f"{real}\0{_digest(real, max_bytes) or 'not a readable regular file'}"
+
+
+def _plugin_files(module_file: str) -> list[str]:
+    """The files that make up a plugin: a package's every file (its other modules, data), or the one module."""
+    if os.path.basename(module_file) != "__init__.py":
+        return [module_file]
+    folder = os.path.dirname(module_file)
+    out = []
+    for here, dirs, files in os.walk(folder):
+        dirs[:] = sorted(d for d in dirs if d != "__pycache__" and not d.startswith("."))
+        out.extend(os.path.join(here, f) for f in sorted(files) if not f.endswith((".pyc", ".pyo")))
+        if len(out) > 10_000:  # not a plugin package: a folder holding everything; stop counting
+            break
+    return out
+
+
+_ENTRY_KEYS = {"digest", "used", "loaded", "shared", "diagnostics", "target", "fingerprint"}
+_DIAG_KEYS = {"path": str, "line": int, "column": int, "rule": str, "severity": int, "message": str, "subject": str}
+
+
+def _valid_entry(data: object) -> bool:
+    """Whether a cache entry has exactly the shape ``put`` writes; anything else is a miss."""
+    if not isinstance(data, dict) or set(data) != _ENTRY_KEYS or not isinstance(data["loaded"], bool):
+        return False
+    if not isinstance(data["shared"], dict):  # what run-wide rules collected (Rule.collect), plain JSON
+        return False
+    used = data["used"]
+    if not isinstance(used, list) or not all(isinstance(u, list) and len(u) == 2 and all(isinstance(x, str) for x in u) for u in used):
+        return False
+    diags = data["diagnostics"]
+    if not isinstance(diags, list):
+        return False
+    levels = {int(s) for s in Severity}
+    for d in diags:
+        if not isinstance(d, dict) or set(d) != set(_DIAG_KEYS):
+            return False
+        if not all(isinstance(d[k], t) and not isinstance(d[k], bool) for k, t in _DIAG_KEYS.items()):
+            return False
+        if d["line"] < 1 or d["column"] < 1 or d["severity"] not in levels:
+            return False
+    return True
+
+
+def _secret(folder: str) -> bytes | None:
+    """The key that signs cache entries, kept in the user's own cache folder (never in a repository).
+
+    A repository can name a cache folder of its own (``cache: FOLDER``) and
+    commit entries into it; without this key they are misses, so a forged
+    entry cannot hide findings. None (no caching) when it cannot be had."""
+    path = os.path.join(folder, "entry-key")
+    key = _read_key(path)
+    if key is not None:
+        return key
+    try:
+        os.makedirs(folder, exist_ok=True)
+        tmp = f"{path}.{os.getpid()}.tmp"
+        fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
+        try:
+            with os.fdopen(fd, "wb") as handle:
+                handle.write(os.urandom(32))
+            try:
+                os.link(tmp, path)  # the first writer wins; the others read its key
+            except FileExistsError:
+                pass
+        finally:
+            os.unlink(tmp)
+        return _read_key(path)
+    except OSError:
+        return None
+
+
+def _read_key(path: str) -> bytes | None:
+    """The 32 bytes of a regular key file (a pipe or device in its place is no key), else None."""
+    try:
+        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+    except (OSError, ValueError):
+        return None
+    try:
+        info = os.fstat(fd)
+        if not stat.S_ISREG(info.st_mode) or info.st_size != 32:
+            return None
+        key = os.read(fd, 33)
+        return key if len(key) == 32 else None
+    except OSError:
+        return None
+    finally:
+        os.close(fd)
 
 
 class ResultCache:
     """Per-file results on disk, keyed by everything that can change them."""
 
-    def __init__(self, folder: str, fingerprint: str):
+    def __init__(self, folder: str, fingerprint: str, max_bytes: int | None = None, key: bytes | None = None):
         self.folder = folder
         self.fingerprint = fingerprint
+        self.max_bytes = max_bytes
+        self.key = key if key is not None else _secret(default_cache_dir())
 
     @staticmethod
     def fingerprint_of(host: PluginHost, settings: RuleSettings, cfg: Config) -> str:
         parts: list[str] = [f"ctllint {__version__}", f"cache {CACHE_FORMAT}", sys.version]
         for name, plugin in sorted(host.pm.list_name_plugin(), key=lambda p: str(p[0])):
             module_file = getattr(plugin, "__file__", None)
-            stamp = ""
-            if module_file and os.path.exists(module_file):
-                st = os.stat(module_file)
-                stamp = f"{st.st_size}:{st.st_mtime_ns}"
-            parts.append(f"plugin {name} {module_file} {stamp}")
+            parts.append(f"plugin {name} {module_file}")
+            if isinstance(module_file, str) and os.path.exists(module_file):
+                # every file of a plugin package, by its bytes: an edit in any of its modules is a new key
+                for f in _plugin_files(module_file):
+                    parts.append(f"  {f} {_digest(f, 64 << 20) or 'unreadable'}")
         parts.append(json.dumps({"enabled": settings.enabled, "sev": {k: int(v) for k, v in sorted(settings.severities.items())},
                                  "options": settings.options, "limit": settings.time_limit}, sort_keys=True, default=str))
         parts.append(json.dumps(asdict(cfg.limits), sort_keys=True))
@@ -85,41 +210,67 @@ class ResultCache:
         key = hashlib.sha256(f"{os.path.abspath(target.path)}\0{target.shown}\0{self.fingerprint}".encode()).hexdigest()
         return os.path.join(self.folder, key[:2], key[2:34] + ".json")
 
+    def _seal(self, body: str) -> str:
+        return hmac.new(self.key or b"", body.encode("utf-8"), hashlib.sha256).hexdigest()
+
     def get(self, target: Target) -> FileResult | None:
+        """The cached result, or None: a missing, unreadable, corrupt, unsigned or mismatched entry is a miss."""
+        if self.key is None:
+            return None
         entry = self._entry_path(target)
         try:
-            with open(entry, encoding="utf-8") as handle:
-                data = json.load(handle)
-        except (OSError, ValueError):
-            return None
-        if data.get("digest") != _digest(target.path):
-            return None
-        for used, digest in data.get("used", []):
-            if _digest(used) != digest:
+            info = os.stat(entry)
+            if not stat.S_ISREG(info.st_mode) or info.st_size > 64 << 20:
                 return None
-        diags = [Diagnostic(d["path"], d["line"], d["column"], d["rule"], Severity(d["severity"]), d["message"], d.get("subject", "")) for d in data["diagnostics"]]
-        shared = data.get("shared", {})
-        return FileResult(target.shown, diags, [u for u, _ in data.get("used", [])], data.get("loaded", True), shared if isinstance(shared, dict) else {})
+            with open(entry, encoding="utf-8") as handle:
+                sealed = json.load(handle)
+            if not isinstance(sealed, dict) or set(sealed) != {"seal", "entry"} or not isinstance(sealed["seal"], str):
+                return None
+            data = sealed["entry"]
+            if not hmac.compare_digest(sealed["seal"], self._seal(json.dumps(data, sort_keys=True))):
+                return None
+        except (OSError, ValueError, RecursionError, TypeError):
+            return None
+        if not _valid_entry(data) or data["target"] != os.path.abspath(target.path) or data["fingerprint"] != self.fingerprint:
+            return None
+        if data["digest"] != _digest(target.path, self.max_bytes):
+            return None
+        for used, state in data["used"]:
+            if _state(used, self.max_bytes) != state:
+                return None
+        diags = [Diagnostic(d["path"], d["line"], d["column"], d["rule"], Severity(d["severity"]), d["message"], d["subject"]) for d in data["diagnostics"]]
+        return FileResult(target.shown, diags, [u for u, _ in data["used"]], data["loaded"], data["shared"])
 
     def put(self, target: Target, digest: str | None, result: FileResult) -> None:
-        if digest is None or any(d.rule == "plugin-error" for d in result.diagnostics):
+        if self.key is None or digest is None or any(d.rule == "plugin-error" for d in result.diagnostics):
             return  # a plugin fault (a time limit, say) may not repeat: do not keep it
         data = {
+            "target": os.path.abspath(target.path),
+            "fingerprint": self.fingerprint,
             "digest": digest,
-            "used": [[u, _digest(u)] for u in result.used_files],
+            "used": [[u, _state(u, self.max_bytes)] for u in result.used_files],
             "loaded": result.loaded,
             "shared": result.shared,
             "diagnostics": [{"path": d.path, "line": d.line, "column": d.column, "rule": d.rule, "severity": int(d.severity), "message": d.message, "subject": d.subject} for d in result.diagnostics],
         }
         entry = self._entry_path(target)
+        tmp = None
         try:
+            sealed = {"seal": self._seal(json.dumps(data, sort_keys=True)), "entry": data}
             os.makedirs(os.path.dirname(entry), exist_ok=True)
             fd, tmp = tempfile.mkstemp(dir=os.path.dirname(entry), suffix=".tmp")
             with os.fdopen(fd, "w", encoding="utf-8") as handle:
-                json.dump(data, handle)
+                json.dump(sealed, handle)
             os.replace(tmp, entry)
-        except OSError:
-            pass  # a cache that cannot be written is only slower
+            tmp = None
+        except (OSError, ValueError):
+            pass  # a cache that cannot be written (a full disk, say) is only slower
+        finally:
+            if tmp is not None:  # never leave a half-written temporary file behind
+                try:
+                    os.unlink(tmp)
+                except OSError:
+                    pass
 
 
 _WORKER: Checker | None = None
@@ -133,9 +284,48 @@ def _check_one(target: Target) -> FileResult:
 def _worker_init(checker: Checker) -> None:
     global _WORKER
     _WORKER = checker
+    import signal
+
+    # The main process turns SIGTERM into an exception so that it can clean up;
+    # a worker must simply die of it when the main process stops it.
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)
+    signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C reaches the whole group: the main process decides
+    if sys.platform.startswith("linux"):  # and die with the main process, even when it is killed outright
+        try:
+            import ctypes
+
+            ctypes.CDLL(None, use_errno=True).prctl(1, signal.SIGTERM)  # PR_SET_PDEATHSIG
+        except (OSError, AttributeError):
+            pass
 
 
-def dependents(device_files: list[str], exclude: list[str], base: str | None) -> list[Target]:
+def _stop_workers(pool) -> None:
+    """Stop a pool's worker processes now (an interrupt or SIGTERM): nothing is left running."""
+    processes = list((getattr(pool, "_processes", None) or {}).values())
+    for proc in processes:
+        try:
+            proc.terminate()
+        except (OSError, ValueError):
+            pass
+    pool.shutdown(wait=False, cancel_futures=True)
+    for proc in processes:
+        try:
+            proc.join(5)
+            if proc.is_alive():
+                proc.kill()
+                proc.join(5)
+        except (OSError, ValueError, AssertionError):
+            pass
+
+
+def _size(path: str) -> int:
+    try:
+        return os.stat(path).st_size
+    except (OSError, ValueError):
+        return 0
+
+
+def dependents(device_files: list[str], exclude: list[str], base: str | None, max_bytes: int = Limits().max_file_bytes) -> list[Target]:
     """Schematics in the repository that ``use`` any of ``device_files``.
 
     pre-commit passes only the files that changed; when a shared device
@@ -148,7 +338,7 @@ def dependents(device_files: list[str], exclude: list[str], base: str | None) ->
         real = os.path.realpath(device_file)
         candidates, _ = discover([root], exclude, base)
         for t in candidates:
-            if not _regular_file(t.path):
+            if not _regular_file(t.path) or _size(t.path) > max_bytes:  # as check would refuse it: not read
                 continue
             try:
                 with open(t.path, encoding="utf-8", errors="replace") as handle:
@@ -186,7 +376,7 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     device_files = [p for p in named_files if _is_device_file(p)]
     if device_files:
         known = {os.path.abspath(t.path) for t in targets}
-        for t in dependents(device_files, cfg.exclude, base):
+        for t in dependents(device_files, cfg.exclude, base, cfg.limits.max_file_bytes):
             if os.path.abspath(t.path) not in known:
                 known.add(os.path.abspath(t.path))
                 targets.append(t)
@@ -198,7 +388,7 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
         folder = cfg.cache if isinstance(cfg.cache, str) else default_cache_dir()
         if isinstance(cfg.cache, str) and not os.path.isabs(folder):
             folder = os.path.join(cfg.folder, folder)
-        cache = ResultCache(folder, ResultCache.fingerprint_of(host, settings, cfg))
+        cache = ResultCache(folder, ResultCache.fingerprint_of(host, settings, cfg), cfg.limits.max_file_bytes)
 
     results: dict[int, FileResult] = {}
     todo: list[int] = []
@@ -210,7 +400,7 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
         else:
             todo.append(i)
             if cache:
-                digests[i] = _digest(t.path)
+                digests[i] = _digest(t.path, cfg.limits.max_file_bytes)
     cached = len(results)
 
     jobs = jobs or os.cpu_count() or 1
@@ -223,10 +413,15 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
         parallel = "fork" in multiprocessing.get_all_start_methods()
     if parallel:
         context = multiprocessing.get_context("fork")
-        with ProcessPoolExecutor(max_workers=min(jobs, len(todo)), mp_context=context, initializer=_worker_init, initargs=(checker,)) as pool:
+        pool = ProcessPoolExecutor(max_workers=min(jobs, len(todo)), mp_context=context, initializer=_worker_init, initargs=(checker,))
+        try:
             chunk = max(1, len(todo) // (jobs * 4))
             for i, result in zip(todo, pool.map(_check_one, [targets[i] for i in todo], chunksize=chunk)):
                 results[i] = result
+        except BaseException:  # SIGTERM, Ctrl-C, a broken pool: the workers must not outlive the run
+            _stop_workers(pool)
+            raise
+        pool.shutdown()
     else:
         for i in todo:
             results[i] = checker.check_file(targets[i].path, display_path=targets[i].shown)
@@ -250,7 +445,7 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
             hit = cache.get(t) if cache else None
             results[i] = hit if hit is not None else checker.check_file(t.path, display_path=t.shown)
             if cache and hit is None:
-                cache.put(t, _digest(t.path), results[i])
+                cache.put(t, _digest(t.path, cfg.limits.max_file_bytes), results[i])
     diagnostics: set[Diagnostic] = set()
     for r in results.values():
         diagnostics.update(r.diagnostics)

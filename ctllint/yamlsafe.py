@@ -184,7 +184,7 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
             hkey = resolved if isinstance(resolved, str) else (type(resolved).__name__, resolved)
             seen = keys[-1]
             if hkey in seen:
-                raise YamlProblem(node.line, node.column, f"duplicate key '{node.value}' (first at line {seen[hkey]})")
+                raise YamlProblem(node.line, node.column, f"duplicate key '{_short(node.value)}' (first at line {seen[hkey]})")
             seen[hkey] = node.line  # the line only: a large mapping's key nodes need not stay alive
             pending[-1] = node
         else:
@@ -292,7 +292,13 @@ def check_tree(root: Node, limits: Limits) -> None:
 
 
 def _tag_message(tag: str) -> str:
-    return f"tag '{tag.replace(STD, '!!')}' is not allowed: schematics hold plain data only"
+    return f"tag '{_short(tag.replace(STD, '!!'))}' is not allowed: schematics hold plain data only"
+
+
+def _short(text: str, limit: int = 20) -> str:
+    """At most ``limit`` characters of a value quoted in a message (the file may not be a schematic at all)."""
+    text = str(text)
+    return text if len(text) <= limit else text[:limit] + "..."
 
 
 def scalar_value(node: ScalarNode) -> Any:

@@ -600,7 +600,7 @@ def test_help_documents_the_git_setup(capsys):
     with pytest.raises(SystemExit):
         main(["diff", "--help"])
     out = capsys.readouterr().out
-    assert 'git config diff.ctllint.command "ctllint diff --git-external"' in out
+    assert 'git config diff.ctllint.command "ctllint diff --git-external --"' in out
     assert "diff=ctllint" in out
     import ctllint.commands.diff as module
 

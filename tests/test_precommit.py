@@ -64,6 +64,15 @@ def test_pre_commit_blocks_then_passes(tmp_path, hook_repo):
     good = subprocess.run(cmd, cwd=work, capture_output=True, text=True, env=env, timeout=900)
     assert good.returncode == 0, good.stdout + good.stderr
     assert "Passed" in good.stdout
+    # A file named like an option must not turn the hook into a pass, under --all-files too.
+    (work / "pump.ctl.yaml").write_text(SCHEMATIC)
+    (work / "--write-baseline=.ctl.yaml").write_text(SCHEMATIC)
+    git(work, "add", "--", "pump.ctl.yaml", "--write-baseline=.ctl.yaml")
+    for files in ([], ["--all-files"]):  # the staged files (as on commit), then every file
+        hostile = subprocess.run([*pre_commit, "try-repo", str(hook_repo), "ctllint", *files], cwd=work, capture_output=True, text=True, env=env, timeout=900)
+        assert hostile.returncode == 1, files + [hostile.stdout + hostile.stderr]
+        assert "pump.ctl.yaml:12:14: error:" in hostile.stdout and "--write-baseline=.ctl.yaml:12:14: error:" in hostile.stdout
+        assert not (work / ".ctl.yaml").exists()
 
 
 def test_changed_device_file_checks_its_users(tmp_path, monkeypatch, capsys):

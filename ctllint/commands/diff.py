@@ -23,7 +23,7 @@ Tell git which files use the driver, in ``.gitattributes`` (commit it)::
 
 and define the driver, once per clone (or ``--global``)::
 
-    git config diff.ctllint.command "ctllint diff --git-external"
+    git config diff.ctllint.command "ctllint diff --git-external --"
 
 ``git diff``, ``git diff --cached`` and ``git diff REV`` then print the
 semantic diff for schematics and the usual line diff for other files.
@@ -50,11 +50,12 @@ import subprocess
 import sys
 import tempfile
 
-from ..cli import EXIT_OK, UsageError, add_config_args, command, settings_for, setup, write_output
+from ..cli import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, settings_for, setup, write_output
 from ..diff import Revision, SchematicDiff, diff_revisions, render_json, render_text
 from ..engine import Checker
 from ..loader import SCHEMATIC_SUFFIXES
 from ..report import use_colour
+from ..safeio import ReadProblem, git_blob, read_bytes
 from ..yamlsafe import Limits, MappingNode, ScalarNode, SequenceNode, YamlProblem, compose
 
 DEV_NULL = "/dev/null"
@@ -68,7 +69,7 @@ examples:
 
 git integration (git diff shows this diff for schematics):
   printf '*.ctl.yaml diff=ctllint\\n*.ctl.yml diff=ctllint\\n' >> .gitattributes
-  git config diff.ctllint.command "ctllint diff --git-external"
+  git config diff.ctllint.command "ctllint diff --git-external --"
   git diff; git log -p --ext-diff; git diff --no-ext-diff for the line diff
   (git calls the driver with: path old-file old-hex old-mode new-file new-hex
   new-mode; /dev/null stands for the missing side of an added or deleted file)
@@ -99,6 +100,7 @@ def _configure(p: argparse.ArgumentParser) -> None:
     p.add_argument("--color", "--colour", dest="color", choices=("auto", "always", "never"), default="auto",
                    help="colour the text output: auto (default: on a terminal), always, never; NO_COLOR turns it off")
     add_config_args(p)
+    add_plugins_arg(p)
 
 
 def _colour(args: argparse.Namespace) -> bool:
@@ -170,24 +172,26 @@ def _external(args: argparse.Namespace) -> list[SchematicDiff]:
         )
     path, old_file, old_hex, _old_mode, new_file, new_hex, _new_mode = argv[:7]
     new_path = argv[7] if len(argv) == 9 else path
-    old = _external_side(path, old_file, old_hex)
-    new = _external_side(new_path, new_file, new_hex)
     checker = _checker(args)
+    old = _external_side(path, old_file, old_hex, checker.limits)
+    new = _external_side(new_path, new_file, new_hex, checker.limits)
     return [diff_revisions(old, new, checker, findings=not args.no_findings)]
 
 
-def _external_side(path: str, file: str, hex_id: str) -> Revision:
+def _external_side(path: str, file: str, hex_id: str, limits: Limits | None = None) -> Revision:
     """One side as git hands it over: /dev/null, the working file itself, or a temporary copy of a blob."""
     label = "working tree" if not hex_id.strip("0.") else hex_id[:9]
     if file == DEV_NULL:
         return Revision(path, label="none")
     if os.path.abspath(file) == os.path.abspath(path):
         return Revision(path, real_path=file, label=label)
+    if not os.path.lexists(file):
+        raise UsageError(f"ctllint: cannot read {file}: it does not exist")
     try:
-        with open(file, "rb") as handle:
-            data = handle.read()
-    except OSError as exc:
-        raise UsageError(f"ctllint: cannot read {file}: {exc.strerror or exc}") from None
+        data = read_bytes(file, limits)
+    except ReadProblem:
+        # not a regular file or too large: loading it reports why, at 1:1 of the file
+        return Revision(path, real_path=file, label=label)
     if data.startswith(b"\xef\xbb\xbf"):
         data = data[3:]
     # text stands for the file at `path`, so `use` resolves beside it in the working tree
@@ -237,35 +241,47 @@ def _parse_range(spec: str, cwd: str) -> tuple[tuple[str, str], tuple[str, str] 
 class _RevisionTree:
     """Files of one revision written into a temporary folder, so that ``use`` resolves within that revision."""
 
-    def __init__(self, sha: str, top: str, folder: str):
+    def __init__(self, sha: str, top: str, folder: str, limits: Limits | None = None):
         self.sha = sha
         self.top = top
         self.root = folder
+        self.limits = limits or Limits()
         os.makedirs(os.path.join(folder, ".git"), exist_ok=True)  # the repository root for `use` checks
 
     def blob(self, rel: str) -> bytes | None:
-        done = _git_cmd(["show", f"{self.sha}:{rel}"], cwd=self.top, check=False)
-        return done.stdout if done.returncode == 0 else None
+        """The blob's bytes, None when there is none; a ReadProblem when it passes the size limit."""
+        return git_blob(self.sha, rel, self.top, self.limits)
 
-    def write(self, rel: str) -> str | None:
-        data = self.blob(rel)
+    def _put(self, rel: str) -> tuple[str, bytes] | None:
+        target = os.path.join(self.root, *rel.split("/"))
+        try:
+            data = self.blob(rel)
+        except ReadProblem:
+            # An oversized blob becomes a sparse file of its size: loading it gives the
+            # same located "above the limit" finding as check, and nothing is held in memory.
+            size = int(_git_cmd(["cat-file", "-s", f"{self.sha}:{rel}"], cwd=self.top).stdout.strip())
+            os.makedirs(os.path.dirname(target), exist_ok=True)
+            with open(target, "wb") as handle:
+                handle.truncate(size)
+            return target, b""
         if data is None:
             return None
-        target = os.path.join(self.root, *rel.split("/"))
         os.makedirs(os.path.dirname(target), exist_ok=True)
         with open(target, "wb") as handle:
             handle.write(data)
+        return target, data
+
+    def write(self, rel: str) -> str | None:
+        put = self._put(rel)
+        if put is None:
+            return None
+        target, data = put
         for used in _use_entries(data):
             used_rel = os.path.normpath(os.path.join(os.path.dirname(rel), used)).replace(os.sep, "/")
             if used_rel.startswith("../") or os.path.isabs(used_rel):
                 continue
             if not os.path.exists(os.path.join(self.root, *used_rel.split("/"))):
-                data_used = self.blob(used_rel)
-                if data_used is not None:
-                    used_target = os.path.join(self.root, *used_rel.split("/"))
-                    os.makedirs(os.path.dirname(used_target), exist_ok=True)
-                    with open(used_target, "wb") as handle:
-                        handle.write(data_used)
+                self._put(used_rel)
         return target
 
 
@@ -297,20 +313,19 @@ def _is_device_file(data: bytes) -> bool:
     return "devices" in keys and not keys & {"supplies", "rungs", "expect", "use"}
 
 
-def _read(rel: str, sha: str | None, top: str) -> bytes | None:
-    """A file of the working tree (sha None) or of a revision."""
-    if sha is None:
-        try:
-            with open(os.path.join(top, *rel.split("/")), "rb") as handle:
-                return handle.read()
-        except OSError:
-            return None
-    done = _git_cmd(["show", f"{sha}:{rel}"], cwd=top, check=False)
-    return done.stdout if done.returncode == 0 else None
+def _read(rel: str, sha: str | None, top: str, limits: Limits | None = None) -> bytes | None:
+    """A file of the working tree (sha None) or of a revision; None when it is not there, not a
+    regular file or above the size limit (loading it, where it is loaded, says why)."""
+    try:
+        if sha is None:
+            return read_bytes(os.path.join(top, *rel.split("/")), limits)
+        return git_blob(sha, rel, top, limits)
+    except ReadProblem:
+        return None
 
 
 def _dependents(changes: list[tuple[str | None, str | None]], old_sha: str, new_sha: str | None, top: str, cwd: str,
-                pathspecs: list[str]) -> list[tuple[str, str]]:
+                pathspecs: list[str], limits: Limits | None = None) -> list[tuple[str, str]]:
     """Unchanged schematics that ``use`` a changed shared device file: (schematic, device file) pairs.
 
     Their devices changed with the device file, and so may their findings.
@@ -319,7 +334,7 @@ def _dependents(changes: list[tuple[str | None, str | None]], old_sha: str, new_
     for old_rel, new_rel in changes:
         for rel, sha in ((old_rel, old_sha), (new_rel, new_sha)):
             if rel and rel not in device_files:
-                data = _read(rel, sha, top)
+                data = _read(rel, sha, top, limits)
                 if data is not None and _is_device_file(data):
                     device_files.add(rel)
     if not device_files:
@@ -334,7 +349,7 @@ def _dependents(changes: list[tuple[str | None, str | None]], old_sha: str, new_
     for name in names.decode("utf-8", "surrogateescape").split("\0"):
         if not name.endswith(SCHEMATIC_SUFFIXES) or name in listed:
             continue
-        data = _read(name, new_sha, top)
+        data = _read(name, new_sha, top, limits)
         if data is None or not any(b in data for b in basenames):
             continue
         for used in _use_entries(data):
@@ -360,11 +375,11 @@ def _git(args: argparse.Namespace) -> list[SchematicDiff]:
         return []
     checker = _checker(args)
     new_label = new[1] if new else "working tree"
-    dependents = dict(_dependents(changes, old_sha, new[0] if new else None, top, cwd, args.files))
+    dependents = dict(_dependents(changes, old_sha, new[0] if new else None, top, cwd, args.files, checker.limits))
     diffs = []
     with tempfile.TemporaryDirectory(prefix="ctllint-diff-") as tmp:
-        old_tree = _RevisionTree(old_sha, top, os.path.join(tmp, "old"))
-        new_tree = _RevisionTree(new[0], top, os.path.join(tmp, "new")) if new else None
+        old_tree = _RevisionTree(old_sha, top, os.path.join(tmp, "old"), checker.limits)
+        new_tree = _RevisionTree(new[0], top, os.path.join(tmp, "new"), checker.limits) if new else None
         for old_rel, new_rel in changes + [(name, name) for name in dependents]:
             old_rev = Revision(old_rel or new_rel, label=old_label)
             if old_rel:
@@ -376,7 +391,7 @@ def _git(args: argparse.Namespace) -> list[SchematicDiff]:
                     real = new_tree.write(new_rel)
                 else:
                     real = os.path.join(top, *new_rel.split("/"))
-                    real = real if os.path.isfile(real) else None
+                    real = real if os.path.lexists(real) else None  # a link, pipe or device: loading it says why
                 new_rev = Revision(new_rel, real_path=real, label=new_label)
             diff = diff_revisions(old_rev, new_rev, checker, findings=not args.no_findings)
             if new_rel in dependents:

@@ -6,7 +6,7 @@ import json
 import os
 import sys
 
-from ..cli import EXIT_OK, UsageError, add_config_args, command, setup, write_output
+from ..cli import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, setup, write_output
 
 STARTER_CONFIG = """\
 # ctllint configuration: see 'ctllint rules' and 'ctllint explain RULE'.
@@ -26,7 +26,7 @@ repos:
     hooks:
       - id: ctllint
         name: ctllint (control schematic design rules)
-        entry: ctllint check
+        entry: ctllint check --
         language: system
         files: '\\.ctl\\.ya?ml$'
 """
@@ -62,6 +62,7 @@ expect:
 def _configure_schema(p: argparse.ArgumentParser) -> None:
     p.add_argument("-o", "--output", metavar="FILE", help="write the schema to FILE instead of standard output")
     add_config_args(p)
+    add_plugins_arg(p)
 
 
 def _run_schema(args: argparse.Namespace) -> int:

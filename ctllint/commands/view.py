@@ -7,7 +7,7 @@ import os
 import shutil
 import sys
 
-from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, command, settings_for, setup, split_names, write_output
+from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, settings_for, setup, split_names, write_output
 from ..discover import discover, display_path
 from ..engine import Checker
 from ..loader import LoadResult, load_file
@@ -77,6 +77,7 @@ def _configure_draw(p: argparse.ArgumentParser) -> None:
     p.add_argument("--no-legend", action="store_true", help="leave out the list of findings and the safety note under the drawing")
     _add_rule_args(p)
     add_config_args(p)
+    add_plugins_arg(p)
 
 
 def _run_draw(args: argparse.Namespace) -> int:
@@ -144,6 +145,7 @@ def _configure_report(p: argparse.ArgumentParser) -> None:
                         "(e.g. HEAD~1, main, a tag), with each changed rung drawn before and after; needs git")
     _add_rule_args(p)
     add_config_args(p)
+    add_plugins_arg(p)
 
 
 def _run_report(args: argparse.Namespace) -> int:
@@ -260,11 +262,11 @@ def _changes_since(rev: str, base: tuple[str, str], targets, files, checker: Che
     gone = sorted((old, new) for old, new in pairs if old is not None and old != new and new not in in_report)
     tree = _git_cmd(["ls-tree", "-r", "-z", "--name-only", "--full-tree", sha], cwd=top).stdout
     in_old = set(tree.decode("utf-8", "surrogateescape").split("\0"))
-    uses_changed = dict(_dependents(pairs, sha, None, top, top, [])) if pairs else {}
+    uses_changed = dict(_dependents(pairs, sha, None, top, top, [], cfg.limits)) if pairs else {}
     label, now = rev, "working tree"
     out = Changes(rev, sha)
     with tempfile.TemporaryDirectory(prefix="ctllint-report-") as tmp:
-        old_tree = _RevisionTree(sha, top, os.path.join(tmp, "old"))
+        old_tree = _RevisionTree(sha, top, os.path.join(tmp, "old"), cfg.limits)
 
         def old_side(old_rel: str):
             real = old_tree.write(old_rel)
@@ -340,6 +342,7 @@ def _configure_xref(p: argparse.ArgumentParser) -> None:
     p.description = XREF_HELP
     p.add_argument("path", metavar="FILE", help="a schematic file (*.ctl.yaml)")
     add_config_args(p)
+    add_plugins_arg(p)
 
 
 def _rungs_text(numbers: list[int]) -> str:
@@ -470,6 +473,7 @@ def _configure_simulate(p: argparse.ArgumentParser) -> None:
     p.add_argument("--layout", choices=("auto", "steps", "loads"), default="auto",
                    help="rows are steps (steps), rows are loads (loads), or whichever fits the terminal (auto, the default)")
     add_config_args(p)
+    add_plugins_arg(p)
 
 
 def _tag_hint(tag: str, candidates: list[str]) -> str:
