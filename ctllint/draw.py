@@ -21,6 +21,9 @@ Layout, rung by rung:
   a dot where three or more conductors meet.
 - Each coil's row carries, right of the common rail, the rungs where the
   coil's contacts are used: ``NO 2, 5  NC 7``.
+- Each element's terminal numbers (written in the file, or assigned as
+  ``ctllint.terminals`` says) stand in small type under its two leads,
+  each beside the wire that lands on it.
 - A finding is matched to what it points at by file, line and column: an
   element, or every rung element of a device whose tag or field it names.
   The element gets an outline in the colour of its worst finding, and each
@@ -43,6 +46,7 @@ from typing import Iterable
 from xml.sax.saxutils import escape, quoteattr
 
 from .model import Diagnostic, Element, Location, Rung, Schematic, Severity, Supply
+from .terminals import Marks, assign as assign_terminals
 
 # -- fonts and measures -----------------------------------------------------------
 
@@ -59,6 +63,10 @@ SIZE_RUNG = 12      # rung numbers
 SIZE_XREF = 10
 SIZE_RULE = 9       # rule names under marked elements
 SIZE_CAPTION = 10
+SIZE_TERMINAL = 8   # terminal numbers under an element's leads
+TERMINAL_BELOW = 19  # their baseline below the row line
+TERMINAL_OFFSET = 9  # their centres left and right of the element's centre
+OUTLINE_HEIGHT = 52  # a marked element's outline, from 29 above its row line to 23 below (terminal numbers inside)
 SIZE_RAIL = 12
 
 LEFT_MARGIN = 64        # room for rung numbers left of the hot rail
@@ -70,7 +78,7 @@ LABEL_ABOVE = 17        # element label baseline above the row line
 WIRE_ABOVE = 4          # wire number baseline above the row line
 ROW_TOP = 32            # from a row's top to its line
 ROW_BOTTOM = 18         # from a row's line to its bottom, without rule lanes
-LANE_FIRST = 27         # first rule-name baseline below the row line
+LANE_FIRST = 33         # first rule-name baseline below the row line (under the terminal numbers)
 LANE_STEP = 11
 XREF_STEP = 13
 RUNG_GAP = 8
@@ -86,6 +94,7 @@ TEXT_SIZE = {
     "title": SIZE_TITLE, "sub": SIZE_SUB, "tag": SIZE_TAG, "letter": SIZE_TAG, "wire": SIZE_WIRE,
     "rungno": SIZE_RUNG, "xref": SIZE_XREF, "caption": SIZE_CAPTION, "railname": SIZE_RAIL,
     "supply": SIZE_SUB, "rule": SIZE_RULE, "legend": SIZE_SUB, "changelabel": SIZE_RULE,
+    "termno": SIZE_TERMINAL,
 }
 
 INK = "#1b1f24"
@@ -156,6 +165,7 @@ class Placed:
     cx: float = 0.0
     y: float = 0.0
     mark: Mark | None = None
+    terminals: Marks | None = None  # the element's terminal numbers (its left wire's first)
 
 
 @dataclass
@@ -587,6 +597,7 @@ def _css(prefix: str, marks: bool = False) -> str:
         f"{p}.wire{{fill:{WIRE_INK}}}",
         f"{p}.rungno{{fill:{INK};font-weight:bold}}",
         f"{p}.xref{{fill:{MUTED}}}",
+        f"{p}.termno{{fill:{MUTED}}}",
         f"{p}.caption{{fill:{MUTED};font-style:italic}}",
         f"{p}.railname{{fill:{INK};font-weight:bold}}",
         f"{p}.supply{{fill:{MUTED}}}",
@@ -667,7 +678,7 @@ def _change_outline(svg: _Svg, p: Placed, half: float, grow: float) -> None:
     a minus for what left (removed, moved away), a plus for what arrived."""
     cx, y = p.cx, p.y
     change = p.mark.change if p.mark else ""
-    svg.add(f'<rect class="change chg-{change}" x="{_n(cx - half)}" y="{_n(y - 29 - grow)}" width="{_n(2 * half)}" height="{_n(44 + 2 * grow)}" rx="5"/>')
+    svg.add(f'<rect class="change chg-{change}" x="{_n(cx - half)}" y="{_n(y - 29 - grow)}" width="{_n(2 * half)}" height="{_n(OUTLINE_HEIGHT + 2 * grow)}" rx="5"/>')
     bx, by = cx + half, y - 29 - grow
     svg.add(f'<circle cx="{_n(bx)}" cy="{_n(by)}" r="5.5" fill="{CHANGE_COLOUR.get(change, INK)}"/>')
     svg.line(bx - 3, by, bx + 3, by, "chgbadge")
@@ -777,7 +788,7 @@ def _xref_lines(uses: list[CoilUse], width: float) -> list[tuple[str, str]]:
 def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: str = "", legend: bool = True,
            finding_links: dict[Diagnostic, str] | None = None, header: bool = True,
            rungs: Iterable[int] | None = None, marks: dict[int, Mark] | None = None,
-           min_columns: int = MIN_COLUMNS) -> Drawing:
+           min_columns: int = MIN_COLUMNS, kind_registry=None) -> Drawing:
     """Lay out and draw ``sch`` with ``diagnostics`` marked on their elements.
 
     ``id_prefix`` starts every id in the SVG, so that several drawings can
@@ -794,7 +805,9 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
     style with a +/- badge, and its label under the element (as for a
     review of changes). ``min_columns`` widens the drawing to at least that
     many columns, so that two drawings can be laid out on the same grid
-    (``Drawing.columns`` tells how many a drawing used).
+    (``Drawing.columns`` tells how many a drawing used). ``kind_registry``
+    (a ``KindRegistry``, default the built-in kinds) numbers the terminals
+    of plugins' kinds too.
     """
     links = finding_links or {}
     marks = marks or {}
@@ -845,6 +858,7 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
         return x
 
     kinds = {tag: dev.kind for tag, dev in sch.devices.items()}
+    terminal_marks = assign_terminals(sch, kind_registry)
     element_ids: dict[int, str] = {}
     anchors: dict[Diagnostic, str] = {}
     for lay in layouts:
@@ -855,6 +869,7 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
                 p.anchor = f"{pre}el-{p.element.index}"
                 p.findings = by_element.get(p.element.index, [])
                 p.mark = marks.get(p.element.index)
+                p.terminals = terminal_marks.get(p.element.index)
                 element_ids[p.element.index] = p.anchor
                 for d in p.findings:
                     anchors.setdefault(d, p.anchor)
@@ -1111,17 +1126,26 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
                 data += f' data-findings={quoteattr(rules)} data-severity="{worst}"'
             if p.mark is not None:
                 data += f' data-change="{p.mark.change}" data-change-label={quoteattr(p.mark.label)}'
+            if p.terminals is not None:
+                data += f' data-terminals={quoteattr(p.terminals.pair)}' + (' data-terminals-written="true"' if p.terminals.written else "")
             svg.add(f'<g class="el" id="{p.anchor}"{data}>')
             what = f"; {p.mark.label}" if p.mark is not None else ""
-            svg.add(f"<title>{escape(el.text)} (line {el.loc.line}, wires {escape(el.left)}\u2013{escape(el.right)}{escape(what)})</title>")
+            terms = f", terminals {p.terminals.pair}" if p.terminals is not None else ""
+            svg.add(f"<title>{escape(el.text)} (line {el.loc.line}, wires {escape(el.left)}\u2013{escape(el.right)}{escape(terms)}{escape(what)})</title>")
             if p.mark is not None:
                 _change_outline(svg, p, _outline_half(p, col_w) + (3 if p.findings else 0), 3 if p.findings else 0)
             if p.findings:
                 worst = max(d.severity for d in p.findings)
                 half = _outline_half(p, col_w)
-                svg.add(f'<rect class="outline mark-{worst}" x="{_n(p.cx - half)}" y="{_n(p.y - 29)}" width="{_n(2 * half)}" height="44" rx="5"/>')
+                svg.add(f'<rect class="outline mark-{worst}" x="{_n(p.cx - half)}" y="{_n(p.y - 29)}" width="{_n(2 * half)}" height="{OUTLINE_HEIGHT}" rx="5"/>')
             _symbol(svg, p, p.kind)
             svg.text(p.cx, p.y - LABEL_ABOVE, label, "tag", "middle")
+            if p.terminals is not None:
+                # Each number beside the lead its wire lands on: the drawing may turn an element round.
+                flipped = el.left != el.right and lay.wire_of.get(p.left, p.left) != el.left
+                left, right = (p.terminals.right, p.terminals.left) if flipped else (p.terminals.left, p.terminals.right)
+                svg.text(p.cx - TERMINAL_OFFSET, p.y + TERMINAL_BELOW, left, "termno", "middle")
+                svg.text(p.cx + TERMINAL_OFFSET, p.y + TERMINAL_BELOW, right, "termno", "middle")
             svg.add("</g>")
 
     # Wire numbers, above the elements' outlines.

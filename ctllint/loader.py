@@ -37,6 +37,7 @@ from .model import (
     Supply,
 )
 from .quantities import QuantityError, parse_quantity
+from .terminals import assign as assign_terminals, conflicts as terminal_conflicts, parse as parse_terminals
 from .yamlsafe import STD, Limits, MappingNode, Node, ScalarNode, SequenceNode, YamlProblem, check_tree, compose, pos, scalar_value, within
 
 FORMAT_VERSION = 1
@@ -813,18 +814,27 @@ class _Loader:
                     if not isinstance(value, str):
                         self.fail(item, f"'{item.value}' stands where an element belongs: expected TAG or TAG.PART between two wires")
                     m = REF_RE.match(value)
+                    terms = None
+                    if not m and " " in value.strip():  # terminal numbers after a space: CR1.NO 13-14
+                        ref, _, written = value.strip().partition(" ")
+                        m, terms = REF_RE.match(ref), parse_terminals(written.strip())
+                        if m and terms is None:
+                            self.fail(item, f"'{value}': terminal numbers are written after the reference as LEFT-RIGHT, "
+                                            f"two different names of letters, digits, '+', '_' or '/' (e.g. '{ref} 13-14')")
                     if not m:
-                        self.fail(item, f"'{value}' is not an element reference (TAG or TAG.PART)")
+                        self.fail(item, f"'{value}' is not an element reference (TAG or TAG.PART, optionally followed by terminal numbers such as 13-14)")
                     tag, part = m.group("tag", "part")
-                    refs.append((share(tag, tag), part and share(part, part), item))
+                    refs.append((share(tag, tag), part and share(part, part), item, terms))
             except _Stop:
                 ok = False
         if not ok:
             raise _Stop
         elements = []
         located, path, index = Element.located, self.path, rung.index
-        for j, (tag, part, item) in enumerate(refs):
+        for j, (tag, part, item, terms) in enumerate(refs):
             elements.append(located(counter, tag, part, path, *self.position(item), index, wires[j], wires[j + 1]))
+            if terms is not None:
+                elements[-1].terminals = terms
             counter += 1
         return Path.packed(wires, wire_pos, elements, self.loc(node)), counter
 
@@ -961,6 +971,13 @@ class _Loader:
                 role = K.CONTACT
             el.role = role or ""
             el.inductive = bool(role == K.LOAD and kind.inductive)
+        self.check_terminals(sch)
+
+    def check_terminals(self, sch: Schematic) -> None:
+        """Written terminal numbers of one device that put two wires on one terminal."""
+        if any(el.terminals for el in sch.elements):
+            for el, message in terminal_conflicts(sch, assign_terminals(sch, self.kinds)):
+                self.error(el.loc, message)
 
 
 def _consume(items: list, node: Node) -> Iterator:

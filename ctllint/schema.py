@@ -28,7 +28,8 @@ def _quantity(dimension: str) -> dict[str, Any]:
 
 _WIRE = {"type": ["string", "integer"], "pattern": r"^\S+$", "description": "wire name or number (no spaces)"}
 _TAG = {"type": "string", "pattern": r"^[^.\s]+$", "description": "a device tag"}
-_ELEMENT = {"type": "string", "pattern": r"^[^.\s]+(\.[^.\s]+)?$", "description": "TAG or TAG.PART"}
+_ELEMENT = {"type": "string", "pattern": r"^[^.\s]+(\.[^.\s]+)?( [A-Za-z0-9_+/]+-[A-Za-z0-9_+/]+)?$",
+            "description": "TAG or TAG.PART, optionally followed by its terminal numbers after a space (CR1.NO 13-14)"}
 
 
 def _category(with_power: bool = False) -> dict[str, Any]:

@@ -30,6 +30,7 @@ from ctllint.api import CheckContext, Example, Finding, Rule
 from ctllint.circuit import biconnected_blocks, path_text
 from ctllint.model import Device, Element, Schematic, Severity, Supply
 from ctllint.quantities import format_si
+from ctllint.terminals import assign as assign_terminals
 from ctllint.tables import COIL_MAX_FRACTION, COIL_MIN_FRACTION, coil_voltage_ok
 from ctllint.wiresets import WireSets
 
@@ -225,6 +226,15 @@ def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
     """
     sch = ctx.schematic
     used: dict[str, list[int]] = {}
+    marks: dict = {}
+
+    def pair(el: Element) -> str:
+        """`` (terminals 23-24)`` of the exceeding use, worked out only once a finding needs it."""
+        if not marks:
+            marks.update(assign_terminals(sch, ctx.kinds) or {None: None})
+        m = marks.get(el.index)
+        return f" (terminals {m.pair})" if m is not None else ""
+
     for el in sch.elements:
         if el.role != K.CONTACT:
             continue
@@ -240,7 +250,7 @@ def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
             if tally[2] > blocks:
                 yield Finding(
                     el.loc,
-                    f"{el.text} in {_rung(sch, el)} is position contact number {tally[2]} drawn for selector {el.tag}, "
+                    f"{el.text}{pair(el)} in {_rung(sch, el)} is position contact number {tally[2]} drawn for selector {el.tag}, "
                     f"which provides {_provides(count)} (line {dev.at('contacts').line}), {blocks} contact "
                     f"block{'s' if blocks != 1 else ''} in all; add a contact block, correct `contacts`, or use a relay",
                     _subject(sch, el),
@@ -256,7 +266,7 @@ def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
         if _excess(count, tally[0], tally[1]) > before:
             yield Finding(
                 el.loc,
-                f"{el.text} in {_rung(sch, el)} is {el.part} contact number {tally[0 if el.part == 'NO' else 1]} drawn for {el.tag}, "
+                f"{el.text}{pair(el)} in {_rung(sch, el)} is {el.part} contact number {tally[0 if el.part == 'NO' else 1]} drawn for {el.tag}, "
                 f"which provides {_provides(count)} (line {dev.at('contacts').line}) and {tally[0]} NO + {tally[1]} NC are drawn so far; "
                 "add an auxiliary contact block, correct `contacts`, or use a relay",
                 _subject(sch, el),
