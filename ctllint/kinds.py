@@ -38,6 +38,12 @@ class FieldSpec:
     doc: str = ""
 
 
+# ``location: panel | field`` (every kind): outside the panel, a field device's wires pass the terminal strip.
+# Absent, the kind decides (ctllint.export.FIELD_KINDS: pushbuttons, switches, solenoids, motors, heaters).
+LOCATION = FieldSpec(TEXT, choices=("panel", "field"),
+                     doc="panel or field (outside the panel: its wires pass the terminal strip); default by kind")
+
+
 @dataclass(frozen=True)
 class DeviceKind:
     """What a device kind is made of.
@@ -61,6 +67,10 @@ class DeviceKind:
     positions: bool = False  # selector: one part per position
     doc: str = ""
     plugin: str = "core"
+
+    def __post_init__(self) -> None:
+        # Every kind may say where the device stands (``ctllint export``'s terminal plan).
+        self.fields.setdefault("location", LOCATION)
 
     @property
     def used_in_rungs(self) -> bool:
