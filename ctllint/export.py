@@ -159,14 +159,16 @@ def documents(sch: Schematic, kinds: KindRegistry | None = None, strip: str = DE
                 wanted.setdefault((e.device, wire), first)
     rank = {w: k for k, w in enumerate(order)}
     point_of: dict[tuple[str, str], int] = {}
+    points_of_wire: dict[str, list[int]] = {}
     for n, (device, wire) in enumerate(sorted(wanted, key=lambda dw: (wanted[dw], dw[0], rank[dw[1]])), start=1):
         point_of[(device, wire)] = n
+        points_of_wire.setdefault(wire, []).append(n)  # ascending: n grows
 
     conductors: list[Conductor] = []
     points: list[StripPoint] = []
     for wire in order:
         wire_ends = [e for e, _ in ends[wire]]
-        on_strip = sorted({p for (d, w), p in point_of.items() if w == wire})
+        on_strip = points_of_wire.get(wire, [])
         panel = [e for e in wire_ends if not field(e)]
         if not on_strip:
             for a, b in zip(wire_ends, wire_ends[1:]):
