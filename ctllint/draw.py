@@ -46,6 +46,7 @@ from typing import Iterable
 from xml.sax.saxutils import escape, quoteattr
 
 from .model import Diagnostic, Element, Location, Rung, Schematic, Severity, Supply
+from .kinds import selector_parts
 from .terminals import Marks, assign as assign_terminals
 
 # -- fonts and measures -----------------------------------------------------------
@@ -112,6 +113,9 @@ CHANGE_COLOUR = {"removed": "#a8336f", "moved-from": "#a8336f", "added": "#00785
 CHANGE_TINT = {"removed": "#f9e8f1", "moved-from": "#f9e8f1", "added": "#e3f4ee", "moved-to": "#e3f4ee"}
 CHANGE_DASH = {"removed": "6 3", "moved-from": "6 3", "added": "", "moved-to": ""}
 
+# Resistive loads, drawn as a rectangle (heaters with a zigzag inside).
+RESISTIVE_KINDS = ("space-heater", "panel-heater", "resistor")
+
 # Letters for loads that are neither coils nor lamps (a circle with a letter).
 LOAD_LETTER = {"solenoid": "S", "horn": "H", "plc-input": "I"}
 
@@ -166,6 +170,7 @@ class Placed:
     y: float = 0.0
     mark: Mark | None = None
     terminals: Marks | None = None  # the element's terminal numbers (its left wire's first)
+    closed_in: tuple[str, ...] = ()  # a selector part: the positions it is closed in
 
 
 @dataclass
@@ -635,6 +640,14 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
             svg.line(cx - 11, y + 10, cx + 11, y - 10, "sym")
         if kind == "timer":  # timed contact: a small arc over the bars
             svg.add(f'<path class="sym" d="M{_n(cx - 7)} {_n(y - 13)} Q{_n(cx)} {_n(y - 7)} {_n(cx + 7)} {_n(y - 13)}"/>')
+    elif role == "load" and kind in RESISTIVE_KINDS:
+        # a resistor: a rectangle on the wire (IEC 60617 style); a heater: the same with a heating zigzag inside
+        svg.line(cx - h, y, cx - 12, y, "sym")
+        svg.line(cx + 12, y, cx + h, y, "sym")
+        svg.add(f'<rect class="symfill" x="{_n(cx - 12)}" y="{_n(y - 6)}" width="24" height="12"/>')
+        if kind != "resistor":
+            pts = " ".join(f"{_n(cx - 9 + 3 * k)},{_n(y + (3 if k % 2 else -3))}" for k in range(7))
+            svg.add(f'<polyline class="sym" points="{pts}"/>')
     elif role == "load":
         svg.line(cx - h, y, cx - 11, y, "sym")
         svg.line(cx + 11, y, cx + h, y, "sym")
@@ -870,6 +883,9 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
                 p.findings = by_element.get(p.element.index, [])
                 p.mark = marks.get(p.element.index)
                 p.terminals = terminal_marks.get(p.element.index)
+                dev = sch.devices.get(p.element.tag)
+                if p.kind == "selector" and dev is not None:
+                    p.closed_in = selector_parts(dev).get(p.element.part or "", ())
                 element_ids[p.element.index] = p.anchor
                 for d in p.findings:
                     anchors.setdefault(d, p.anchor)
@@ -1126,11 +1142,15 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
                 data += f' data-findings={quoteattr(rules)} data-severity="{worst}"'
             if p.mark is not None:
                 data += f' data-change="{p.mark.change}" data-change-label={quoteattr(p.mark.label)}'
+            if p.closed_in:
+                data += f' data-closed-in={quoteattr(" ".join(p.closed_in))}'
             if p.terminals is not None:
                 data += f' data-terminals={quoteattr(p.terminals.pair)}' + (' data-terminals-written="true"' if p.terminals.written else "")
             svg.add(f'<g class="el" id="{p.anchor}"{data}>')
             what = f"; {p.mark.label}" if p.mark is not None else ""
             terms = f", terminals {p.terminals.pair}" if p.terminals is not None else ""
+            if p.closed_in:
+                terms += f", closed in {', '.join(p.closed_in)}"
             svg.add(f"<title>{escape(el.text)} (line {el.loc.line}, wires {escape(el.left)}\u2013{escape(el.right)}{escape(terms)}{escape(what)})</title>")
             if p.mark is not None:
                 _change_outline(svg, p, _outline_half(p, col_w) + (3 if p.findings else 0), 3 if p.findings else 0)

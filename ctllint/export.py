@@ -6,7 +6,7 @@ small diff). ``ctllint export KIND FILE`` writes one of them.
 
 Where things are. Each device is in the panel or in the field (outside
 the panel: pushbutton stations, limit and process switches, valves,
-motors). A device says so with ``location: panel | field``; without it,
+motors, a motor's space heater). A device says so with ``location: panel | field``; without it,
 ``FIELD_KINDS`` decides. Every wire that reaches a field device passes a
 terminal strip (``TB1`` unless told otherwise): one strip point per field
 device and wire, so that each field conductor has its own point; points of
@@ -57,7 +57,7 @@ DEFAULT_STRIP = "TB1"
 # Kinds that sit outside the panel unless a device says ``location: panel``.
 FIELD_KINDS = frozenset({
     "pushbutton", "limit-switch", "pressure-switch", "temperature-switch", "float-switch", "flow-switch",
-    "foot-switch", "solenoid", "motor", "heater",
+    "foot-switch", "solenoid", "motor", "heater", "space-heater",
 })
 
 

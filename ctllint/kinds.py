@@ -27,6 +27,7 @@ CONTACTS = "contacts"        # ContactCount
 RATING = "rating"            # ContactRating
 POWER_RATING = "power_rating"  # PowerRating
 POSITIONS = "positions"      # a list of position names
+CAMS = "cams"                # a selector's cam table: contact block name -> positions it is closed in
 
 
 @dataclass(frozen=True)
@@ -134,6 +135,7 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
         {
             "positions": FieldSpec(POSITIONS, doc="position names, the first is the rest position"),
             "action": FieldSpec(TEXT, choices=("maintained", "spring-return"), default="maintained"),
+            "cams": FieldSpec(CAMS, doc="cam table: contact block name -> the positions it is closed in (TAG.<block>)"),
             **_CONTACT_FIELDS,
         },
         required=("positions",),
@@ -228,6 +230,21 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
 )
 
 
+# Resistive loads in rungs: current W / V at the supply's voltage, no inrush, not inductive.
+_RESISTIVE_FIELDS = {
+    "voltage": FieldSpec(VOLTAGE, doc="rated voltage"),
+    "power": FieldSpec(POWER, doc="rated power (W): its current is W / V, inrush the same"),
+}
+BUILTIN_KINDS += tuple(
+    DeviceKind(name, dict(_RESISTIVE_FIELDS), bare="load", doc=doc)
+    for name, doc in (
+        ("space-heater", "anti-condensation heater of a motor or enclosure, switched in a rung"),
+        ("panel-heater", "heater inside the control panel, usually under a thermostat"),
+        ("resistor", "a resistive load: a discharge or load resistor"),
+    )
+)
+
+
 @dataclass
 class KindRegistry:
     """The device kinds known for one run: the built-ins plus plugins' kinds."""
@@ -257,3 +274,16 @@ CONTACT = "contact"
 OUTPUT = "output"
 CONDUCTOR = "conductor"
 SWITCHING_ROLES = (CONTACT, OUTPUT)
+
+
+def selector_parts(device) -> dict[str, tuple[str, ...]]:
+    """A selector's parts and the positions each is closed in.
+
+    Each position ``p`` is a part closed in ``p`` alone (``SS1.hand``); each
+    block of the cam table (``cams: {HA: [hand, auto]}``) a part closed in
+    every position it lists (``SS1.HA``).
+    """
+    parts = {str(p): (str(p),) for p in (device.get("positions") or ())}
+    for name, closed in (device.get("cams") or {}).items():
+        parts.setdefault(name, tuple(closed))
+    return parts

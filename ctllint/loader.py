@@ -475,8 +475,8 @@ class _Loader:
             if req not in fields:
                 self.error(knode, f"{kind_name} {tag} needs '{req}'")
                 ok = False
-        if kind.positions and "positions" in dev.fields:
-            pass
+        if "cams" in dev.fields and "cams" in fields:
+            ok = self.check_cams(dev, fields["cams"][1]) and ok
         for name, spec in kind.fields.items():
             if name not in dev.fields and spec.default is not None:
                 dev.fields[name] = spec.default
@@ -532,6 +532,16 @@ class _Loader:
             if len(names) < 2:
                 self.fail(node, f"{what} needs at least two positions")
             return names
+        if t == K.CAMS:
+            cams = {}
+            for name, kn, vn in self.mapping(node, what):
+                if not TAG_RE.match(name):
+                    self.fail(kn, f"contact block name '{name}' holds a dot or a space: it is used as a part name (TAG.{name})")
+                items = self.sequence(vn, f"positions of block {name}")
+                if not items:
+                    self.fail(vn, f"block {name} of the cam table is closed in no position")
+                cams[name] = tuple(self.wire(n, "position name") for n in items)
+            return cams
         if t == K.CONTACTS:
             return self.read_contacts(node, what)
         if t == K.RATING:
@@ -539,6 +549,28 @@ class _Loader:
         if t == K.POWER_RATING:
             return self.shared(self.read_power_rating(node, what))
         self.fail(node, f"{what}: field type '{t}' is not known to this ctllint")
+
+    def check_cams(self, dev: Device, node: Node) -> bool:
+        """Each cam block names positions the selector has, and no block is named as a position."""
+        positions = [str(p) for p in (dev.get("positions") or ())]
+        ok = True
+        for name, kn, vn in self.mapping(node, f"cams of {dev.tag}"):
+            if name in positions:
+                self.error(kn, f"block {name} of {dev.tag}'s cam table has the name of a position; {dev.tag}.{name} already means "
+                               "the contact closed in that position alone: name the block otherwise (e.g. HA for hand and auto)")
+                ok = False
+                continue
+            seen: set[str] = set()
+            for item in vn.value if isinstance(vn, SequenceNode) else ():
+                value = str(scalar_value(item))
+                if value not in positions:
+                    self.error(item, f"block {name} of {dev.tag} is closed in '{value}', which is not one of its positions ({', '.join(positions)})")
+                    ok = False
+                elif value in seen:
+                    self.error(item, f"block {name} of {dev.tag} lists position '{value}' twice")
+                    ok = False
+                seen.add(value)
+        return ok
 
     def read_contacts(self, node: Node, what: str) -> ContactCount:
         entries = self.mapping(node, what)
@@ -967,7 +999,7 @@ class _Loader:
                 continue
             kind = self.kinds.get(dev.kind)
             role = kind.part_role(el.part)
-            if role is None and kind.positions and el.part in (dev.get("positions") or ()):
+            if role is None and kind.positions and el.part in K.selector_parts(dev):
                 role = K.CONTACT
             el.role = role or ""
             el.inductive = bool(role == K.LOAD and kind.inductive)

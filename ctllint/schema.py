@@ -67,6 +67,9 @@ def _field(spec: K.FieldSpec) -> dict[str, Any]:
         out = {"type": "array", "items": _TAG}
     elif t == K.POSITIONS:
         out = {"type": "array", "items": _WIRE, "minItems": 2, "uniqueItems": True}
+    elif t == K.CAMS:
+        out = {"type": "object", "propertyNames": {"pattern": r"^[^.\s]+$"},
+               "additionalProperties": {"type": "array", "items": _WIRE, "minItems": 1, "uniqueItems": True}}
     elif t == K.CONTACTS:
         count = {"type": "integer", "minimum": 0}
         out = {"oneOf": [
@@ -178,6 +181,8 @@ def kinds_table(kinds: KindRegistry | None = None) -> str:
         parts = []
         if kind.positions:
             parts.append("`TAG.<position>`")
+            if any(spec.type == K.CAMS for spec in kind.fields.values()):
+                parts.append("`TAG.<cam block>`")
         parts += [f"`TAG.{p}`" for p in kind.parts]
         if kind.bare:
             parts.append(f"`TAG` ({kind.bare})")

@@ -18,7 +18,8 @@ command that shows states. ``Simulator(circuit)`` holds:
 
 Conduction: a NO contact is closed when its device is actuated (switch
 pressed or on, overload tripped, coil energized), a NC contact when it is
-not; a selector part is closed in its own position; a fuse or breaker unless
+not; a selector part is closed in its own position (a block of its cam
+table in each position the table lists); a fuse or breaker unless
 tripped; a PLC output when on. Timer contacts: on-delay, they move once the
 coil has been energized continuously for ``preset`` and return as soon as it
 drops; off-delay, they move as soon as the coil energizes and return once it
@@ -149,6 +150,7 @@ class Simulator:
         self._load_tags: list[str] = list(dict.fromkeys(el.tag for el in self._loads))  # file order, once each
         self._kind = {tag: dev.kind for tag, dev in sch.devices.items()}
         self._positions: dict[str, list[str]] = {}
+        self._cams: dict[str, dict[str, frozenset[str]]] = {}  # selector -> cam block -> positions it is closed in
         self._switches: list[str] = []
         self._trippable: list[str] = []
         self._outputs: list[str] = []
@@ -158,6 +160,8 @@ class Simulator:
             kind = dev.kind
             if kind == "selector":
                 self._positions[tag] = [str(p) for p in (dev.get("positions") or [])]
+                if dev.get("cams"):
+                    self._cams[tag] = {name: frozenset(closed) for name, closed in dev.get("cams").items()}
             elif kind in _SWITCH_KINDS:
                 self._switches.append(tag)
             elif kind in _TRIPPABLE:
@@ -222,7 +226,11 @@ class Simulator:
         if role != "contact":
             return False
         if kind == "selector":
-            return self.position.get(tag) == part
+            position = self.position.get(tag)
+            if position == part:
+                return True
+            cams = self._cams.get(tag)
+            return bool(cams) and position in cams.get(part, ())
         if kind == "overload":
             active = self.tripped.get(tag, False)
         elif tag in self._timers:

@@ -33,7 +33,7 @@ import re
 from dataclasses import dataclass
 from typing import Iterable
 
-from .kinds import CONTACT, CONDUCTOR, LOAD, KindRegistry
+from .kinds import CONTACT, CONDUCTOR, LOAD, KindRegistry, selector_parts
 from .model import ContactCount, Element, Schematic
 
 # A terminal name: letters, digits, '+', '_', '/' (no dash: the dash separates the two).
@@ -122,7 +122,7 @@ def assign(sch: Schematic, kinds: KindRegistry | None = None) -> dict[int, Marks
             continue
         if el.role != CONTACT:
             continue
-        positions = bool(kind.positions and el.part in (dev.get("positions") or ()))
+        positions = bool(kind.positions and el.part in selector_parts(dev))
         function = _function_of(el, kind.name, positions)
         if function is None:
             continue

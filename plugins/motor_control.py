@@ -71,6 +71,7 @@ from typing import Iterable, Iterator
 from ctllint import hookimpl
 from ctllint.api import CheckContext, Example, Finding, Option, Rule
 from ctllint.circuit import biconnected_blocks
+from ctllint import kinds as K
 from ctllint.kinds import BUILTIN_KINDS, LOAD
 from ctllint.model import Element, Severity
 
@@ -580,7 +581,7 @@ def _closable_at_power_return(ctx: CheckContext, el: Element) -> bool | None:
     if dev.kind == "selector":
         if (dev.get("action") or "maintained") == "spring-return":
             positions = dev.get("positions") or []
-            return bool(positions) and el.part == positions[0]
+            return bool(positions) and str(positions[0]) in K.selector_parts(dev).get(el.part, ())
         return True
     return _is_mechanical(dev)
 

@@ -162,7 +162,7 @@ def check_unknown_device(ctx: CheckContext) -> Iterator[Finding]:
 def _valid_parts(dev: Device, kind: K.DeviceKind) -> list[str]:
     parts = [f"{dev.tag}.{p}" for p in kind.parts]
     if kind.positions:
-        parts += [f"{dev.tag}.{p}" for p in dev.get("positions") or ()]
+        parts += [f"{dev.tag}.{p}" for p in K.selector_parts(dev)]  # positions, then cam blocks
     if kind.bare:
         parts.append(dev.tag)
     return parts
@@ -188,7 +188,7 @@ def check_unknown_part(ctx: CheckContext) -> Iterator[Finding]:
             if el.part is None:
                 why = f"{dev.tag} is {what}: name one of its parts ({valid}), not the bare tag"
             elif kind.positions:
-                why = f"selector {dev.tag} has no position '{el.part}' (its positions give {valid})"
+                why = f"selector {dev.tag} has no position or cam block '{el.part}' (its parts: {valid})"
             else:
                 why = f"{dev.tag} is {what} and has no part '{el.part}' (use {valid})"
         yield Finding(el.loc, f"{el.text} in {_rung(sch, el)}: {why}", _subject(sch, el))
@@ -243,7 +243,7 @@ def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
         if count is None or not hasattr(count, "allows"):
             continue
         kind = _kind(dev, ctx.kinds)
-        if kind is not None and kind.positions and el.part in (dev.get("positions") or ()):
+        if kind is not None and kind.positions and el.part in K.selector_parts(dev):
             tally = used.setdefault(el.tag, [0, 0, 0])
             tally[2] += 1
             blocks = count.no + count.nc + count.changeover

@@ -1,0 +1,108 @@
+"""Resistive loads in rungs (space heater, panel heater, resistor) and a selector's cam table."""
+import textwrap
+
+import pytest
+
+from ctllint.circuit import Circuit
+from ctllint.cli import main
+from ctllint.diff import semantic_diff
+from ctllint.loader import load_text
+from ctllint.terminals import assign
+from ctllint.testing import load_schematic
+
+HOA = textwrap.dedent("""\
+    ctllint: 1
+    supplies:
+      ctl: {hot: L1, common: X2, voltage: 120 VAC}
+    devices:
+      SS1: {kind: selector, positions: [off, hand, auto], cams: {HA: [hand, auto], OA: [off, auto]}}
+      PL1: {kind: pilot-light, voltage: 120 VAC}
+      PL2: {kind: pilot-light, voltage: 120 VAC}
+      PL3: {kind: pilot-light, voltage: 120 VAC}
+      HTR1: {kind: space-heater, voltage: 120 VAC, power: 100 W}
+    rungs:
+      - paths:
+          - [L1, SS1.HA, 2, PL1, X2]
+      - paths:
+          - [L1, SS1.OA, 3, PL2, X2]
+      - paths:
+          - [L1, SS1.hand, 4, PL3, X2]
+      - paths:
+          - [L1, SS1.HA, 5, HTR1, X2]
+    """)
+
+
+def test_cam_blocks_close_in_every_position_they_list():
+    sim = Circuit(load_schematic(HOA)).simulator()
+    sim.reset()
+    table = {}
+    for position in ("off", "hand", "auto"):
+        sim.set("SS1", position)
+        table[position] = {t for t in ("PL1", "PL2", "PL3", "HTR1") if sim.energized(t)}
+    # Worked from the cam table by hand: HA closed in hand and auto, OA in off and auto, hand in hand alone.
+    assert table == {"off": {"PL2"}, "hand": {"PL1", "PL3", "HTR1"}, "auto": {"PL1", "PL2", "HTR1"}}
+
+
+def test_resistive_loads_are_loads_and_not_inductive():
+    sch = load_schematic(HOA)
+    heater = [el for el in sch.elements if el.tag == "HTR1"][0]
+    assert heater.role == "load" and heater.inductive is False
+
+
+def test_resistive_current_is_watts_over_volts_with_no_inrush():
+    from ctllint_plugins.ratings import load_figures
+
+    sch = load_schematic(HOA)
+    figures = load_figures(sch.devices["HTR1"], 120.0)
+    assert figures.inrush_a == pytest.approx(100 / 120) and figures.sealed_a == pytest.approx(100 / 120)
+
+
+def test_cam_block_terminals_are_no_blocks_in_sequence():
+    sch = load_schematic(HOA)
+    marks = assign(sch)
+    assert [marks[el.index].pair for el in sch.elements if el.tag == "SS1"] == ["13-14", "23-24", "33-34", "43-44"]
+
+
+@pytest.mark.parametrize("cams, line, words", [
+    ("{HA: [hand, remote]}", 5, "'remote', which is not one of its positions"),
+    ("{hand: [hand, auto]}", 5, "has the name of a position"),
+    ("{HA: [hand, hand]}", 5, "lists position 'hand' twice"),
+    ("{HA: []}", 5, "closed in no position"),
+    ("{H.A: [hand]}", 5, "holds a dot or a space"),
+])
+def test_cam_table_errors_are_format_errors(cams, line, words):
+    text = HOA.replace("cams: {HA: [hand, auto], OA: [off, auto]}", f"cams: {cams}")
+    result = load_text(text, "c.ctl.yaml")
+    assert result.schematic is None
+    assert any(d.line == line and words in d.message for d in result.diagnostics), result.diagnostics
+
+
+def test_set_names_a_position_not_a_cam_block():
+    text = HOA + "expect:\n  - name: s\n    steps:\n      - set: {SS1: HA}\n"
+    result = load_text(text, "c.ctl.yaml")
+    assert result.schematic is None
+    assert "not one of its positions" in result.diagnostics[0].message
+
+
+def test_diff_shows_a_changed_cam_table(tmp_path, capsys):
+    old = load_schematic(HOA, str(tmp_path / "a.ctl.yaml"))
+    new = load_schematic(HOA.replace("OA: [off, auto]", "OA: [off]"), str(tmp_path / "b.ctl.yaml"))
+    d = semantic_diff(old, new)
+    [dev] = d.devices
+    assert dev.tag == "SS1" and [f.field for f in dev.fields] == ["cams"]
+
+
+def test_drawing_shows_heater_symbol_and_cam_positions(tmp_path, capsys):
+    path = tmp_path / "h.ctl.yaml"
+    path.write_text(HOA)
+    assert main(["draw", str(path), "--no-findings"]) == 0
+    svg = capsys.readouterr().out
+    import xml.etree.ElementTree as ET
+
+    root = ET.fromstring(svg)
+    groups = [g for g in root.iter("{http://www.w3.org/2000/svg}g") if g.get("data-element")]
+    heater = next(g for g in groups if g.get("data-element") == "HTR1")
+    shapes = [child.tag.split("}")[1] for child in heater]
+    assert "rect" in shapes and "polyline" in shapes and "circle" not in shapes
+    ha = next(g for g in groups if g.get("data-element") == "SS1.HA")
+    assert ha.get("data-closed-in") == "hand auto"
