@@ -45,7 +45,7 @@ import csv
 import io
 import re
 from dataclasses import dataclass
-from typing import Any
+from typing import Any, NamedTuple
 
 from .kinds import KindRegistry
 from .model import ContactCount, ContactRating, PowerRating, Quantity, Schematic
@@ -74,8 +74,7 @@ def natural(name: str) -> tuple:
     return tuple((0, int(p), "") if p.isdigit() else (1, 0, p) for p in re.split(r"(\d+)", name) if p)
 
 
-@dataclass(frozen=True)
-class End:
+class End(NamedTuple):
     """One conductor end: a device's terminal (``terminal`` None when it has no number)."""
 
     device: str
@@ -142,10 +141,10 @@ def documents(sch: Schematic, kinds: KindRegistry | None = None, strip: str = DE
     ends = _ends_by_wire(sch, kinds)
     order = _wire_order(sch, set(ends))
     devices = sch.devices
+    in_field = {tag for tag, dev in devices.items() if is_field(dev)}
 
     def field(end: End) -> bool:
-        dev = devices.get(end.device)
-        return dev is not None and is_field(dev)
+        return end.device in in_field
 
     # Strip points: per field device (in order of its first use), per wire.
     wanted: dict[tuple[str, str], int] = {}  # (device, wire) -> the device's first use
