@@ -287,6 +287,7 @@ class CoilUse:
     tag: str
     no: list[int]
     nc: list[int]
+    other: dict[str, list[int]] = field(default_factory=dict)  # contacts of other names (an alternating relay's A, B)
 
     def text(self) -> str:
         parts = []
@@ -294,6 +295,8 @@ class CoilUse:
             parts.append("NO " + ", ".join(map(str, self.no)))
         if self.nc:
             parts.append("NC " + ", ".join(map(str, self.nc)))
+        for name, rungs in self.other.items():
+            parts.append(f"{name} " + ", ".join(map(str, rungs)))
         return "  ".join(parts) if parts else "no contacts used"
 
 
@@ -306,13 +309,15 @@ def coil_uses(sch: Schematic) -> dict[str, CoilUse]:
     numbers = {r.index: r.number for r in sch.rungs}
     uses: dict[str, CoilUse] = {}
     for el in sch.elements:
-        if el.part not in ("NO", "NC"):
-            continue
-        uses.setdefault(el.tag, CoilUse(el.tag, [], []))
-        (uses[el.tag].no if el.part == "NO" else uses[el.tag].nc).append(numbers[el.rung])
+        if el.part in ("NO", "NC"):
+            uses.setdefault(el.tag, CoilUse(el.tag, [], []))
+            (uses[el.tag].no if el.part == "NO" else uses[el.tag].nc).append(numbers[el.rung])
+        elif el.role == "contact" and el.part is not None:
+            uses.setdefault(el.tag, CoilUse(el.tag, [], [])).other.setdefault(el.part, []).append(numbers[el.rung])
     for use in uses.values():
         use.no.sort()
         use.nc.sort()
+        use.other = {name: sorted(rungs) for name, rungs in sorted(use.other.items())}
     return uses
 
 
@@ -788,7 +793,7 @@ def _xref_lines(uses: list[CoilUse], width: float) -> list[tuple[str, str]]:
             continue
         pad = " " * len(prefix)
         first = True
-        for name, numbers in (("NO", use.no), ("NC", use.nc)):
+        for name, numbers in (("NO", use.no), ("NC", use.nc), *use.other.items()):
             if not numbers:
                 continue
             text = f"{name} " + ", ".join(map(str, numbers))

@@ -66,6 +66,7 @@ class DeviceKind:
     inductive: bool = False
     mechanical: bool = False
     positions: bool = False  # selector: one part per position
+    contact_parts: tuple[str, ...] = ()  # parts other than NO/NC that are contacts (an alternating relay's A, B)
     doc: str = ""
     plugin: str = "core"
 
@@ -84,6 +85,8 @@ class DeviceKind:
         if part == "coil" and self.coil:
             return "load"
         if part in ("NO", "NC") and part in self.parts:
+            return "contact"
+        if part in self.contact_parts:
             return "contact"
         return None
 
@@ -242,6 +245,19 @@ BUILTIN_KINDS += tuple(
         ("panel-heater", "heater inside the control panel, usually under a thermostat"),
         ("resistor", "a resistive load: a discharge or load resistor"),
     )
+)
+# An alternating relay: each time its coil drops out, the other output takes the next turn
+# (A on the first cycle, B on the second, ...): duplex pumps share the running hours.
+BUILTIN_KINDS += (
+    DeviceKind(
+        "alternating-relay",
+        {k: v for k, v in _COIL_FIELDS.items() if k != "contacts"},
+        parts=("coil", "A", "B"),
+        coil=True,
+        inductive=True,
+        contact_parts=("A", "B"),
+        doc="coil; contact A closed while the coil is on in A's turn, B in B's; the turn passes at each drop-out",
+    ),
 )
 
 

@@ -14,7 +14,10 @@ command that shows states. ``Simulator(circuit)`` holds:
 - PLC outputs on or off (``set: {Q0_3: on}``);
 - for each relay, contactor and starter: whether its contacts are moved;
   for each timer: its coil state, the time spent in it, and whether its
-  timed contacts are moved.
+  timed contacts are moved;
+- for each alternating relay: its coil state and whose turn it is (A at
+  rest): A is closed while the coil is on in A's turn, B in B's, and the
+  turn passes to the other output each time the coil drops out.
 
 Conduction: a NO contact is closed when its device is actuated (switch
 pressed or on, overload tripped, coil energized), a NC contact when it is
@@ -72,7 +75,7 @@ _SWITCH_KINDS = {
 _TRIPPABLE = {"overload", "fuse", "breaker"}
 # Kinds whose contacts are never worked by hand (a relay whose coil is in no
 # rung keeps its contacts at rest).
-_NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter"}
+_NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter", "alternating-relay"}
 _EPS = 1e-9
 _MAX_ITERATIONS = 10_000
 _MAX_TIMER_EVENTS = 100_000
@@ -156,6 +159,7 @@ class Simulator:
         self._outputs: list[str] = []
         self._relays: list[str] = []  # coil devices that are not timers, file order
         self._timers: dict[str, _Timer] = {}
+        self._alternators: dict[str, list] = {}
         for tag, dev in sch.devices.items():
             kind = dev.kind
             if kind == "selector":
@@ -176,6 +180,8 @@ class Simulator:
                 preset = dev.get("preset")
                 seconds = float(getattr(preset, "value", preset) or 0.0)
                 self._timers[tag] = _Timer(tag, dev.get("delay") == "off", seconds)
+            elif dev is not None and dev.kind == "alternating-relay":
+                self._alternators[tag] = [False, 0]  # coil on, whose turn (0: A, 1: B)
             else:
                 self._relays.append(tag)
         # Contacts of a kind a plugin adds: coil-driven when the device has a
@@ -210,11 +216,14 @@ class Simulator:
         self.moved = {t: False for t in self._relays}
         for timer in self._timers.values():
             timer.coil, timer.elapsed, timer.out = False, 0.0, False
+        for state in self._alternators.values():
+            state[0], state[1] = False, 0
         self.time = 0.0
         self._energized = {t: False for t in self._load_tags}
 
     def _key(self) -> tuple:
-        return tuple(self.moved[t] for t in self._relays) + tuple((tm.coil, tm.out) for tm in self._timers.values())
+        return (tuple(self.moved[t] for t in self._relays) + tuple((tm.coil, tm.out) for tm in self._timers.values())
+                + tuple(tuple(st) for st in self._alternators.values()))
 
     def _closed(self, el: Element) -> bool:
         role, tag, part = el.role, el.tag, el.part
@@ -231,6 +240,9 @@ class Simulator:
                 return True
             cams = self._cams.get(tag)
             return bool(cams) and position in cams.get(part, ())
+        if tag in self._alternators:
+            on, turn = self._alternators[tag]
+            return on and part == ("A", "B")[turn]
         if kind == "overload":
             active = self.tripped.get(tag, False)
         elif tag in self._timers:
@@ -265,6 +277,13 @@ class Simulator:
             on = self._energized.get(tag, False)
             if self.moved[tag] != on:
                 self.moved[tag] = on
+                changed = True
+        for tag, state in self._alternators.items():
+            on = self._energized.get(tag, False)
+            if on != state[0]:
+                if state[0]:  # dropped out: the cycle is over, the other output has the next turn
+                    state[1] ^= 1
+                state[0] = on
                 changed = True
         for timer in self._timers.values():
             on = self._energized.get(timer.tag, False)

@@ -76,7 +76,7 @@ from ctllint.kinds import BUILTIN_KINDS, LOAD
 from ctllint.model import Element, Severity
 
 _KINDS = {k.name: k for k in BUILTIN_KINDS}
-COIL_KINDS = ("relay", "timer", "contactor", "starter")
+COIL_KINDS = ("relay", "timer", "contactor", "starter", "alternating-relay")
 CONTACTOR_KINDS = ("contactor", "starter")
 STOP_FUNCTIONS = ("stop", "emergency-stop")
 

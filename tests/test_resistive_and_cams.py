@@ -106,3 +106,46 @@ def test_drawing_shows_heater_symbol_and_cam_positions(tmp_path, capsys):
     assert "rect" in shapes and "polyline" in shapes and "circle" not in shapes
     ha = next(g for g in groups if g.get("data-element") == "SS1.HA")
     assert ha.get("data-closed-in") == "hand auto"
+
+
+ALTERNATOR = textwrap.dedent("""\
+    ctllint: 1
+    supplies:
+      ctl: {hot: L1, common: X2, voltage: 120 VAC}
+    devices:
+      LSL: {kind: float-switch}
+      ALT1: {kind: alternating-relay, coil: 120 VAC}
+      PL1: {kind: pilot-light, voltage: 120 VAC}
+      PL2: {kind: pilot-light, voltage: 120 VAC}
+    rungs:
+      - restart: automatic
+        paths:
+          - [L1, LSL.NO, 2, ALT1.coil, X2]
+      - paths:
+          - [2, ALT1.A, 3, PL1, X2]
+          - [2, ALT1.B, 4, PL2, X2]
+    """)
+
+
+def test_alternating_relay_outputs_take_turns():
+    sim = Circuit(load_schematic(ALTERNATOR)).simulator()
+    sim.reset()
+    seen = []
+    for _ in range(4):  # four float cycles: A, B, A, B (the turn passes at each drop-out)
+        sim.press("LSL")
+        seen.append((sim.energized("PL1"), sim.energized("PL2")))
+        sim.release("LSL")
+        assert not sim.energized("PL1") and not sim.energized("PL2")
+    assert seen == [(True, False), (False, True), (True, False), (False, True)]
+
+
+def test_alternating_relay_parts_and_margin(tmp_path, capsys):
+    sch = load_schematic(ALTERNATOR)
+    assert [(el.text, el.role) for el in sch.elements] == [
+        ("LSL.NO", "contact"), ("ALT1.coil", "load"), ("ALT1.A", "contact"), ("PL1", "load"), ("ALT1.B", "contact"), ("PL2", "load")]
+    marks = assign(sch)
+    assert [marks.get(el.index) and marks[el.index].pair for el in sch.elements if el.tag == "ALT1"] == ["A1-A2", None, None]
+    path = tmp_path / "a.ctl.yaml"
+    path.write_text(ALTERNATOR)
+    assert main(["xref", str(path)]) == 0
+    assert "A: 2  B: 2" in capsys.readouterr().out

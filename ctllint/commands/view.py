@@ -400,7 +400,8 @@ def xref_rows(sch: Schematic, coil_kinds: set[str], kinds=None) -> list[dict[str
             "coil": tag,
             "kind": dev.kind,
             "rung": _rungs_text(coil_rung.get(tag, [])) if tag in coil_rung else "no coil",
-            "no": f"{len(no)}: {_rungs_text(no)}" if no else "0",
+            "no": f"{len(no)}: {_rungs_text(no)}" if no else ("  ".join(f"{name}: {_rungs_text(r)}" for name, r in use.other.items())
+                                                               if use and use.other else "0"),
             "nc": f"{len(nc)}: {_rungs_text(nc)}" if nc else "0",
             "terminals": "  ".join(
                 (f"{part} " if part != "coil" else "") + " ".join(t for _, _, t in sorted(terminals[tag][part]))
