@@ -661,6 +661,8 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
             d = 7.8
             svg.line(cx - d, y - d, cx + d, y + d, "sym")
             svg.line(cx - d, y + d, cx + d, y - d, "sym")
+        elif part in ("set", "reset") and kind == "latching-relay":  # a latching relay's two coils: S and R
+            svg.text(cx, y + 4, "S" if part == "set" else "R", "letter", "middle")
         elif part != "coil":
             letter = LOAD_LETTER.get(kind, (kind[:1] or "?").upper())
             svg.text(cx, y + 4, letter, "letter", "middle")
@@ -902,7 +904,7 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
             if rp.row != row:
                 continue
             for p in rp.placed:
-                if p.element.part == "coil":
+                if p.element.part == "coil" or (p.element.part == "set" and p.kind == "latching-relay"):
                     out.append(uses.get(p.element.tag, CoilUse(p.element.tag, [], [])))
         return out
 

@@ -67,6 +67,7 @@ class DeviceKind:
     mechanical: bool = False
     positions: bool = False  # selector: one part per position
     contact_parts: tuple[str, ...] = ()  # parts other than NO/NC that are contacts (an alternating relay's A, B)
+    coil_parts: tuple[str, ...] = ()  # coils with names of their own instead of ``coil`` (a latching relay's set, reset)
     doc: str = ""
     plugin: str = "core"
 
@@ -82,7 +83,7 @@ class DeviceKind:
         """Role of ``TAG.PART`` (or bare ``TAG`` when part is None), None if the kind lacks it."""
         if part is None:
             return self.bare
-        if part == "coil" and self.coil:
+        if part in self.coil_parts or (part == "coil" and self.coil and not self.coil_parts):
             return "load"
         if part in ("NO", "NC") and part in self.parts:
             return "contact"
@@ -258,7 +259,25 @@ BUILTIN_KINDS += (
         contact_parts=("A", "B"),
         doc="coil; contact A closed while the coil is on in A's turn, B in B's; the turn passes at each drop-out",
     ),
+    # A latching relay: its set coil closes its NO contacts, its reset coil opens them again,
+    # and they stay as they are without power.
+    DeviceKind(
+        "latching-relay",
+        dict(_COIL_FIELDS),
+        parts=("set", "reset", "NO", "NC"),
+        coil=True,
+        inductive=True,
+        coil_parts=("set", "reset"),
+        doc="set and reset coils; the contacts hold their state without power",
+    ),
 )
+
+
+def coil_parts(kind: DeviceKind | None) -> tuple[str, ...]:
+    """The names of a kind's coils in paths: ``("coil",)``, or its own (``("set", "reset")``); () without a coil."""
+    if kind is None or not kind.coil:
+        return ()
+    return kind.coil_parts or ("coil",)
 
 
 @dataclass

@@ -15,6 +15,9 @@ command that shows states. ``Simulator(circuit)`` holds:
 - for each relay, contactor and starter: whether its contacts are moved;
   for each timer: its coil state, the time spent in it, and whether its
   timed contacts are moved;
+- for each latching relay: whether it is set (its NO closed): its set coil
+  sets it, its reset coil resets it (reset wins when both are on), and it
+  holds its state without power;
 - for each alternating relay: its coil state and whose turn it is (A at
   rest): A is closed while the coil is on in A's turn, B in B's, and the
   turn passes to the other output each time the coil drops out.
@@ -75,7 +78,7 @@ _SWITCH_KINDS = {
 _TRIPPABLE = {"overload", "fuse", "breaker"}
 # Kinds whose contacts are never worked by hand (a relay whose coil is in no
 # rung keeps its contacts at rest).
-_NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter", "alternating-relay"}
+_NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter", "alternating-relay", "latching-relay"}
 _EPS = 1e-9
 _MAX_ITERATIONS = 10_000
 _MAX_TIMER_EVENTS = 100_000
@@ -160,6 +163,10 @@ class Simulator:
         self._relays: list[str] = []  # coil devices that are not timers, file order
         self._timers: dict[str, _Timer] = {}
         self._alternators: dict[str, list] = {}
+        # Latching relays: whether each is set. Its set coil sets it, its reset coil resets it (reset wins
+        # when both are on), and power off changes nothing.
+        self._latch_tags = [t for t in self._load_tags if self._kind.get(t) == "latching-relay"]
+        self._latch_coils: set[tuple[str, str | None]] = set()
         for tag, dev in sch.devices.items():
             kind = dev.kind
             if kind == "selector":
@@ -218,12 +225,13 @@ class Simulator:
             timer.coil, timer.elapsed, timer.out = False, 0.0, False
         for state in self._alternators.values():
             state[0], state[1] = False, 0
+        self.latched = {t: False for t in self._latch_tags}
         self.time = 0.0
         self._energized = {t: False for t in self._load_tags}
 
     def _key(self) -> tuple:
         return (tuple(self.moved[t] for t in self._relays) + tuple((tm.coil, tm.out) for tm in self._timers.values())
-                + tuple(tuple(st) for st in self._alternators.values()))
+                + tuple(tuple(st) for st in self._alternators.values()) + tuple(self.latched[t] for t in self._latch_tags))
 
     def _closed(self, el: Element) -> bool:
         role, tag, part = el.role, el.tag, el.part
@@ -243,7 +251,9 @@ class Simulator:
         if tag in self._alternators:
             on, turn = self._alternators[tag]
             return on and part == ("A", "B")[turn]
-        if kind == "overload":
+        if tag in self.latched:
+            active = self.latched[tag]
+        elif kind == "overload":
             active = self.tripped.get(tag, False)
         elif tag in self._timers:
             active = self._timers[tag].out
@@ -261,6 +271,7 @@ class Simulator:
     def _evaluate(self) -> None:
         """Which loads are energized in the present contact state."""
         state = {t: False for t in self._load_tags}
+        coils: set[tuple[str, str | None]] = set()
         if self.power_on:
             _, find = self._union()
             pairs = {(find(s.hot), find(s.common)) for s in self._supplies}
@@ -268,7 +279,10 @@ class Simulator:
                 a, b = find(el.left), find(el.right)
                 if (a, b) in pairs or (b, a) in pairs:
                     state[el.tag] = True
+                    if el.tag in self.latched:
+                        coils.add((el.tag, el.part))
         self._energized = state
+        self._latch_coils = coils
 
     def _update(self) -> bool:
         """Move contacts after the coils; True when anything changed."""
@@ -277,6 +291,16 @@ class Simulator:
             on = self._energized.get(tag, False)
             if self.moved[tag] != on:
                 self.moved[tag] = on
+                changed = True
+        for tag in self._latch_tags:
+            if (tag, "reset") in self._latch_coils:
+                latched = False
+            elif (tag, "set") in self._latch_coils:
+                latched = True
+            else:
+                continue
+            if latched != self.latched[tag]:
+                self.latched[tag] = latched
                 changed = True
         for tag, state in self._alternators.items():
             on = self._energized.get(tag, False)
@@ -381,12 +405,15 @@ class Simulator:
 
     def states(self) -> dict[str, bool]:
         """Every load tag, file order, and whether it is energized."""
-        return {t: self._energized.get(t, False) for t in self._load_tags}
+        return {t: self.latched[t] if t in self.latched else self._energized.get(t, False) for t in self._load_tags}
 
     def state_of(self, tag: str) -> bool:
         """What a ``check`` of ``tag`` reads: a load's energization; for other
         devices, whether they are actuated (a switch pressed, a PLC output on,
-        an overload or fuse tripped, a selector out of its first position)."""
+        an overload or fuse tripped, a selector out of its first position);
+        for a latching relay, whether it is set."""
+        if tag in self.latched:
+            return self.latched[tag]
         if tag in self._energized:
             return self._energized[tag]
         if tag in self.actuated:

@@ -9,7 +9,7 @@ the numbers below are from memory of those standards and of common
 practice):
 
 - a coil (``TAG.coil``) and a solenoid: ``A1`` on its left wire, ``A2`` on
-  its right;
+  its right; a latching relay's set coil ``A1-A2``, its reset coil ``B1-B2``;
 - contacts of a device, numbered in the order the file uses them: a two-part
   number, the sequence number of the contact on the device (1, 2, 3, ...)
   and a function number: NC ``1``-``2``, NO ``3``-``4`` (``13-14``,
@@ -112,8 +112,10 @@ def assign(sch: Schematic, kinds: KindRegistry | None = None) -> dict[int, Marks
         if kind is None:
             continue
         if el.role == LOAD:
-            if el.part == "coil" or (el.part is None and kind.name == "solenoid"):
+            if el.part == "coil" or el.part == "set" and "set" in kind.coil_parts or (el.part is None and kind.name == "solenoid"):
                 marks[el.index] = Marks("A1", "A2")
+            elif el.part == "reset" and "reset" in kind.coil_parts:
+                marks[el.index] = Marks("B1", "B2")  # a second coil (a latching relay's reset), from memory
             elif el.part is None and kind.name == "pilot-light":
                 marks[el.index] = Marks("X1", "X2")
             continue

@@ -572,6 +572,8 @@ def _closable_at_power_return(ctx: CheckContext, el: Element) -> bool | None:
         return False  # unknown, a load (never a conductor here), or a PLC output (the program owns restart)
     if el.role == "conductor":
         return True
+    if dev.kind == "latching-relay":
+        return True  # it holds through the outage whatever state it was in: either contact may be closed
     if dev.kind in COIL_KINDS:
         return True if el.part == "NC" else None
     if dev.kind == "overload":

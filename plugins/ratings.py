@@ -61,7 +61,7 @@ from ctllint.tables import (
 # its limit (computed through a different float route) is not a finding.
 _SLACK = 1e-9
 
-_COIL_KINDS = ("relay", "timer", "contactor", "starter", "alternating-relay")
+_COIL_KINDS = ("relay", "timer", "contactor", "starter", "alternating-relay", "latching-relay")
 _CONTACTOR_KINDS = ("contactor", "starter")
 # IEC 60947-4-1 categories that rate main poles for a cage motor (AC-4, the
 # plugging and inching duty, is the harsher one and covers AC-3 duty too).

@@ -286,6 +286,12 @@ def _has_coil(dev: Device) -> bool:
 def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
     sch = ctx.schematic
     coils = {el.tag for el in sch.elements if el.part == "coil" and el.role == K.LOAD}
+    # A kind with coils of its own names (a latching relay's set and reset) needs every one of them drawn.
+    drawn = {(el.tag, el.part) for el in sch.elements if el.role == K.LOAD}
+    for tag in {el.tag for el in sch.elements if el.role == K.LOAD and el.part != "coil"}:
+        named = K.coil_parts(_kind(sch.devices.get(tag)) if tag in sch.devices else None)
+        if named and named != ("coil",) and all((tag, part) in drawn for part in named):
+            coils.add(tag)
     # A coil drawn as a part the kind lacks (the bare tag M1, or M1.Coil) is
     # reported once, by unknown-part; its contacts are not reported again.
     coils |= {
@@ -301,6 +307,18 @@ def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
         if dev is None or not _has_coil(dev):
             continue
         reported.add(el.tag)
+        named = K.coil_parts(_kind(dev))
+        if named and named != ("coil",):
+            missing = [f"{el.tag}.{p}" for p in named if (el.tag, p) not in drawn]
+            yield Finding(
+                el.loc,
+                f"{el.text} in {_rung(sch, el)} is a contact of {dev.kind} {el.tag}, but {' and '.join(missing)} "
+                f"{'is' if len(missing) == 1 else 'are'} in no rung: the contact "
+                + ("never changes state" if len(missing) == len(named) else "can never return")
+                + "; draw the missing coil or use another device's contact",
+                el.tag,
+            )
+            continue
         yield Finding(
             el.loc,
             f"{el.text} in {_rung(sch, el)} is a contact of {dev.kind} {el.tag}, but {el.tag}.coil is in no rung: "
@@ -311,14 +329,14 @@ def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
 
 def check_coil_duplicate(ctx: CheckContext) -> Iterator[Finding]:
     sch = ctx.schematic
-    first: dict[str, Element] = {}
+    first: dict[tuple[str, str], Element] = {}
     for el in sch.elements:
-        if el.part != "coil" or el.role != K.LOAD:
+        if el.role != K.LOAD or el.part is None or el.part not in K.coil_parts(_kind(sch.devices.get(el.tag)) if el.tag in sch.devices else None):
             continue
-        if el.tag not in first:
-            first[el.tag] = el
+        if (el.tag, el.part) not in first:
+            first[(el.tag, el.part)] = el
             continue
-        one = first[el.tag]
+        one = first[(el.tag, el.part)]
         yield Finding(
             el.loc,
             f"{el.text} in {_rung(sch, el)} is drawn a second time (first in {_rung(sch, one)}, line {one.loc.line}); "
@@ -498,7 +516,9 @@ def check_supply_cross(ctx: CheckContext) -> Iterator[Finding]:
 
 
 def _rated_voltage(dev: Device, el: Element):
-    return dev.get("coil") if el.part == "coil" else dev.get("voltage")
+    if el.part is not None and el.part in K.coil_parts(_kind(dev)):  # coil, or a latching relay's set and reset
+        return dev.get("coil")
+    return dev.get("voltage")
 
 
 def check_voltage_mismatch(ctx: CheckContext) -> Iterator[Finding]:

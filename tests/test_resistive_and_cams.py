@@ -149,3 +149,63 @@ def test_alternating_relay_parts_and_margin(tmp_path, capsys):
     path.write_text(ALTERNATOR)
     assert main(["xref", str(path)]) == 0
     assert "A: 2  B: 2" in capsys.readouterr().out
+
+
+LATCH = textwrap.dedent("""\
+    ctllint: 1
+    supplies:
+      ctl: {hot: L1, common: X2, voltage: 120 VAC}
+    devices:
+      PB1: {kind: pushbutton, function: other}
+      PB2: {kind: pushbutton, function: other}
+      LR1: {kind: latching-relay, coil: 120 VAC}
+      PL1: {kind: pilot-light, voltage: 120 VAC}
+      PL2: {kind: pilot-light, voltage: 120 VAC}
+    rungs:
+      - paths:
+          - [L1, PB1.NO, 2, LR1.set, X2]
+      - paths:
+          - [L1, PB2.NO, 3, LR1.reset, X2]
+      - paths:
+          - [L1, LR1.NO, 4, PL1, X2]
+          - [L1, LR1.NC, 5, PL2, X2]
+    """)
+
+
+def test_latching_relay_holds_without_power_and_reset_wins():
+    sim = Circuit(load_schematic(LATCH)).simulator()
+    sim.reset()
+    lamps = lambda: (sim.energized("PL1"), sim.energized("PL2"))  # noqa: E731
+    assert lamps() == (False, True) and sim.state_of("LR1") is False
+    sim.press("PB1")
+    sim.release("PB1")
+    assert lamps() == (True, False) and sim.state_of("LR1") is True  # set, and it stays set
+    sim.power(False)
+    assert lamps() == (False, False) and sim.state_of("LR1") is True  # no power, still set
+    sim.power(True)
+    assert lamps() == (True, False)
+    sim.press("PB1")
+    sim.press("PB2")  # set and reset both on: reset wins
+    assert lamps() == (False, True)
+    sim.release("PB2")
+    assert lamps() == (True, False)  # set alone again
+    sim.release("PB1")
+    sim.press("PB2")
+    sim.release("PB2")
+    assert lamps() == (False, True) and sim.state_of("LR1") is False
+
+
+def test_latching_relay_coils_and_terminals(tmp_path, capsys):
+    sch = load_schematic(LATCH)
+    assert [(el.text, el.role) for el in sch.elements if el.tag == "LR1"] == [
+        ("LR1.set", "load"), ("LR1.reset", "load"), ("LR1.NO", "contact"), ("LR1.NC", "contact")]
+    marks = assign(sch)
+    assert [marks[el.index].pair for el in sch.elements if el.tag == "LR1"] == ["A1-A2", "B1-B2", "13-14", "21-22"]
+    path = tmp_path / "l.ctl.yaml"
+    path.write_text(LATCH)
+    assert main(["xref", str(path)]) == 0
+    row = next(ln for ln in capsys.readouterr().out.splitlines() if ln.startswith("LR1"))
+    assert row.split()[:3] == ["LR1", "latching-relay", "1"] and "set A1-A2  reset B1-B2  NO 13-14  NC 21-22" in row
+    assert main(["draw", str(path), "--no-findings"]) == 0
+    svg = capsys.readouterr().out
+    assert 'data-coil="LR1"' in svg  # the contacts' rungs beside the set coil

@@ -360,10 +360,10 @@ def xref_rows(sch: Schematic, coil_kinds: set[str], kinds=None) -> list[dict[str
     coil_rung: dict[str, list[int]] = {}
     terminals: dict[str, dict[str, list[tuple[int, int, str]]]] = {}
     for el in sch.elements:
-        if el.part == "coil":
+        if el.part == "coil" or (el.part == "set" and el.role == "load"):  # a latching relay: its set coil
             coil_rung.setdefault(el.tag, []).append(numbers[el.rung])
         m = marks.get(el.index)
-        if m is not None and el.part in ("coil", "NO", "NC"):
+        if m is not None and el.part in ("coil", "set", "reset", "NO", "NC"):
             terminals.setdefault(el.tag, {}).setdefault(el.part, []).append((numbers[el.rung], el.index, m.pair))
     rows = []
     tags = [t for t, d in sch.devices.items() if d.kind in coil_kinds]
@@ -405,7 +405,7 @@ def xref_rows(sch: Schematic, coil_kinds: set[str], kinds=None) -> list[dict[str
             "nc": f"{len(nc)}: {_rungs_text(nc)}" if nc else "0",
             "terminals": "  ".join(
                 (f"{part} " if part != "coil" else "") + " ".join(t for _, _, t in sorted(terminals[tag][part]))
-                for part in ("coil", "NO", "NC") if part in terminals.get(tag, {})) or "-",
+                for part in ("coil", "set", "reset", "NO", "NC") if part in terminals.get(tag, {})) or "-",
             "available": available,
             "status": status,
         })
