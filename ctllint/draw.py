@@ -66,7 +66,7 @@ SIZE_RULE = 9       # rule names under marked elements
 SIZE_CAPTION = 10
 SIZE_TERMINAL = 8   # terminal numbers under an element's leads
 TERMINAL_BELOW = 19  # their baseline below the row line
-TERMINAL_OFFSET = 9  # their centres left and right of the element's centre
+TERMINAL_GAP = 4     # each ends (left) or starts (right) this far from the element's centre
 OUTLINE_HEIGHT = 52  # a marked element's outline, from 29 above its row line to 23 below (terminal numbers inside)
 SIZE_RAIL = 12
 
@@ -112,6 +112,9 @@ SEVERITY_TINT = {Severity.ERROR: "#fdecea", Severity.WARNING: "#fff4e0", Severit
 CHANGE_COLOUR = {"removed": "#a8336f", "moved-from": "#a8336f", "added": "#00785a", "moved-to": "#00785a"}
 CHANGE_TINT = {"removed": "#f9e8f1", "moved-from": "#f9e8f1", "added": "#e3f4ee", "moved-to": "#e3f4ee"}
 CHANGE_DASH = {"removed": "6 3", "moved-from": "6 3", "added": "", "moved-to": ""}
+
+# A safety relay's inputs, written in their box.
+SAFETY_INPUT_TEXT = {"power": "PWR", "ch1": "CH1", "ch2": "CH2", "feedback": "FB"}
 
 # Resistive loads, drawn as a rectangle (heaters with a zigzag inside).
 RESISTIVE_KINDS = ("space-heater", "panel-heater", "resistor")
@@ -661,6 +664,9 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
             d = 7.8
             svg.line(cx - d, y - d, cx + d, y + d, "sym")
             svg.line(cx - d, y + d, cx + d, y - d, "sym")
+        elif kind == "safety-relay":  # a safety relay's inputs: a box named after the input
+            svg.add(f'<rect class="symfill" x="{_n(cx - 12)}" y="{_n(y - 12)}" width="24" height="24"/>')
+            svg.text(cx, y + 3, SAFETY_INPUT_TEXT.get(part or "", "?"), "termno", "middle")
         elif part in ("set", "reset") and kind == "latching-relay":  # a latching relay's two coils: S and R
             svg.text(cx, y + 4, "S" if part == "set" else "R", "letter", "middle")
         elif part != "coil":
@@ -904,7 +910,7 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
             if rp.row != row:
                 continue
             for p in rp.placed:
-                if p.element.part == "coil" or (p.element.part == "set" and p.kind == "latching-relay"):
+                if p.element.part == "coil" or (p.element.part, p.kind) in (("set", "latching-relay"), ("power", "safety-relay")):
                     out.append(uses.get(p.element.tag, CoilUse(p.element.tag, [], [])))
         return out
 
@@ -1171,8 +1177,8 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
                 # Each number beside the lead its wire lands on: the drawing may turn an element round.
                 flipped = el.left != el.right and lay.wire_of.get(p.left, p.left) != el.left
                 left, right = (p.terminals.right, p.terminals.left) if flipped else (p.terminals.left, p.terminals.right)
-                svg.text(p.cx - TERMINAL_OFFSET, p.y + TERMINAL_BELOW, left, "termno", "middle")
-                svg.text(p.cx + TERMINAL_OFFSET, p.y + TERMINAL_BELOW, right, "termno", "middle")
+                svg.text(p.cx - TERMINAL_GAP, p.y + TERMINAL_BELOW, left, "termno", "end")
+                svg.text(p.cx + TERMINAL_GAP, p.y + TERMINAL_BELOW, right, "termno", "start")
             svg.add("</g>")
 
     # Wire numbers, above the elements' outlines.

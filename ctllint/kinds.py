@@ -270,6 +270,20 @@ BUILTIN_KINDS += (
         coil_parts=("set", "reset"),
         doc="set and reset coils; the contacts hold their state without power",
     ),
+    # A safety relay module: power terminals, two input channels and a feedback (reset) loop, all
+    # electronic inputs on its supply; its safety outputs (NO) close once power and both channels
+    # are on and the feedback loop has been closed, and open as soon as power or a channel drops.
+    DeviceKind(
+        "safety-relay",
+        {
+            "coil": FieldSpec(VOLTAGE, doc="rated supply voltage of the module (power terminals and inputs)"),
+            **_CONTACT_FIELDS,
+        },
+        parts=("power", "ch1", "ch2", "feedback", "NO", "NC"),
+        coil=True,
+        coil_parts=("power", "ch1", "ch2", "feedback"),
+        doc="power, ch1, ch2 and feedback inputs; NO safety outputs, NC auxiliary contacts",
+    ),
 )
 
 

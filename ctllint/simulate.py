@@ -18,6 +18,11 @@ command that shows states. ``Simulator(circuit)`` holds:
 - for each latching relay: whether it is set (its NO closed): its set coil
   sets it, its reset coil resets it (reset wins when both are on), and it
   holds its state without power;
+- for each safety relay: whether its safety outputs are on: they come on
+  when its power, both channels and its feedback (reset) loop are on
+  together, and go off as soon as power or a channel drops (a reset button
+  in the feedback loop: the restart waits for it, and for the mirror
+  contacts in the loop);
 - for each alternating relay: its coil state and whose turn it is (A at
   rest): A is closed while the coil is on in A's turn, B in B's, and the
   turn passes to the other output each time the coil drops out.
@@ -78,7 +83,8 @@ _SWITCH_KINDS = {
 _TRIPPABLE = {"overload", "fuse", "breaker"}
 # Kinds whose contacts are never worked by hand (a relay whose coil is in no
 # rung keeps its contacts at rest).
-_NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter", "alternating-relay", "latching-relay"}
+_NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter", "alternating-relay", "latching-relay",
+                 "safety-relay"}
 _EPS = 1e-9
 _MAX_ITERATIONS = 10_000
 _MAX_TIMER_EVENTS = 100_000
@@ -166,6 +172,9 @@ class Simulator:
         # Latching relays: whether each is set. Its set coil sets it, its reset coil resets it (reset wins
         # when both are on), and power off changes nothing.
         self._latch_tags = [t for t in self._load_tags if self._kind.get(t) == "latching-relay"]
+        # Safety relays: whether the outputs are on (started). They start when power, both channels
+        # and the feedback loop are on together, and stop as soon as power or a channel drops.
+        self._safety_tags = [t for t in self._load_tags if self._kind.get(t) == "safety-relay"]
         self._latch_coils: set[tuple[str, str | None]] = set()
         for tag, dev in sch.devices.items():
             kind = dev.kind
@@ -226,12 +235,14 @@ class Simulator:
         for state in self._alternators.values():
             state[0], state[1] = False, 0
         self.latched = {t: False for t in self._latch_tags}
+        self.started = {t: False for t in self._safety_tags}
         self.time = 0.0
         self._energized = {t: False for t in self._load_tags}
 
     def _key(self) -> tuple:
         return (tuple(self.moved[t] for t in self._relays) + tuple((tm.coil, tm.out) for tm in self._timers.values())
-                + tuple(tuple(st) for st in self._alternators.values()) + tuple(self.latched[t] for t in self._latch_tags))
+                + tuple(tuple(st) for st in self._alternators.values()) + tuple(self.latched[t] for t in self._latch_tags)
+                + tuple(self.started[t] for t in self._safety_tags))
 
     def _closed(self, el: Element) -> bool:
         role, tag, part = el.role, el.tag, el.part
@@ -253,6 +264,8 @@ class Simulator:
             return on and part == ("A", "B")[turn]
         if tag in self.latched:
             active = self.latched[tag]
+        elif tag in self.started:
+            active = self.started[tag]
         elif kind == "overload":
             active = self.tripped.get(tag, False)
         elif tag in self._timers:
@@ -279,7 +292,7 @@ class Simulator:
                 a, b = find(el.left), find(el.right)
                 if (a, b) in pairs or (b, a) in pairs:
                     state[el.tag] = True
-                    if el.tag in self.latched:
+                    if el.tag in self.latched or el.tag in self.started:
                         coils.add((el.tag, el.part))
         self._energized = state
         self._latch_coils = coils
@@ -291,6 +304,17 @@ class Simulator:
             on = self._energized.get(tag, False)
             if self.moved[tag] != on:
                 self.moved[tag] = on
+                changed = True
+        for tag in self._safety_tags:
+            on = self._latch_coils
+            if not ((tag, "power") in on and (tag, "ch1") in on and (tag, "ch2") in on):
+                started = False
+            elif (tag, "feedback") in on:
+                started = True
+            else:
+                continue
+            if started != self.started[tag]:
+                self.started[tag] = started
                 changed = True
         for tag in self._latch_tags:
             if (tag, "reset") in self._latch_coils:
@@ -405,7 +429,8 @@ class Simulator:
 
     def states(self) -> dict[str, bool]:
         """Every load tag, file order, and whether it is energized."""
-        return {t: self.latched[t] if t in self.latched else self._energized.get(t, False) for t in self._load_tags}
+        held = {**self.latched, **self.started}
+        return {t: held[t] if t in held else self._energized.get(t, False) for t in self._load_tags}
 
     def state_of(self, tag: str) -> bool:
         """What a ``check`` of ``tag`` reads: a load's energization; for other
@@ -414,6 +439,8 @@ class Simulator:
         for a latching relay, whether it is set."""
         if tag in self.latched:
             return self.latched[tag]
+        if tag in self.started:
+            return self.started[tag]
         if tag in self._energized:
             return self._energized[tag]
         if tag in self.actuated:

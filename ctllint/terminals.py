@@ -21,6 +21,8 @@ practice):
 - a changeover (double-throw) pole ``n``: common ``n1``, NC ``n2``, NO ``n4``;
   an NO and an NC use share a pole when they share a wire;
 - fuses and breakers: ``1`` (line, left) and ``2`` (load, right);
+- a safety relay: power ``A1-A2``, channels ``S11-S12`` and ``S21-S22``,
+  feedback loop ``Y1-Y2``, its contacts as above;
 - pilot lights: ``X1``-``X2``. Horns, PLC inputs and outputs get none
   (their terminals are the product's or the I/O address: write them).
 
@@ -81,6 +83,9 @@ def _function_of(el: Element, kind_name: str, positions: bool) -> str | None:
     return None
 
 
+# A safety relay module's inputs as such modules commonly mark them (common practice, from memory).
+_SAFETY_INPUTS = {"power": ("A1", "A2"), "ch1": ("S11", "S12"), "ch2": ("S21", "S22"), "feedback": ("Y1", "Y2")}
+
 _FUNCTION_DIGITS = {"NC": ("1", "2"), "NO": ("3", "4"), "timed-NC": ("5", "6"), "timed-NO": ("7", "8")}
 
 
@@ -116,6 +121,8 @@ def assign(sch: Schematic, kinds: KindRegistry | None = None) -> dict[int, Marks
                 marks[el.index] = Marks("A1", "A2")
             elif el.part == "reset" and "reset" in kind.coil_parts:
                 marks[el.index] = Marks("B1", "B2")  # a second coil (a latching relay's reset), from memory
+            elif kind.name == "safety-relay" and el.part in _SAFETY_INPUTS:
+                marks[el.index] = Marks(*_SAFETY_INPUTS[el.part])
             elif el.part is None and kind.name == "pilot-light":
                 marks[el.index] = Marks("X1", "X2")
             continue

@@ -19,7 +19,8 @@ CATALOGUE = {
                "loads-in-series", "short-circuit", "supply-cross", "voltage-mismatch", "grounded-side-switching",
                "dangling-wire", "unused-device"],
     "motor-control": ["stop-normally-closed", "stop-in-series", "overload-in-coil-path", "seal-in", "switch-fan-out",
-                      "interlock", "emergency-stop", "auto-restart", "oscillation"],
+                      "interlock", "emergency-stop", "auto-restart", "oscillation",
+                      "safety-relay-feedback"],  # our own addition, for safety relay modules (README)
     "ratings": ["contact-rating", "overload-setting", "control-transformer", "transformer-protection",
                 "vacuum-contactor", "inductive-on-electronic-output"],
     "behaviour": ["expectation", "unsettled"],

@@ -209,3 +209,57 @@ def test_latching_relay_coils_and_terminals(tmp_path, capsys):
     assert main(["draw", str(path), "--no-findings"]) == 0
     svg = capsys.readouterr().out
     assert 'data-coil="LR1"' in svg  # the contacts' rungs beside the set coil
+
+
+SAFETY = textwrap.dedent("""\
+    ctllint: 1
+    supplies:
+      dc: {hot: "+24", common: 0V, voltage: 24 VDC}
+      ctl: {hot: L1, common: X2, voltage: 120 VAC}
+    devices:
+      ES1: {kind: pushbutton, function: emergency-stop, action: maintained}
+      LS1: {kind: limit-switch}
+      PB3: {kind: pushbutton, function: reset}
+      SR1: {kind: safety-relay, coil: 24 VDC}
+      K1: {kind: contactor, coil: 120 VAC}
+    rungs:
+      - restart: automatic
+        paths:
+          - ["+24", SR1.power, 0V]
+          - ["+24", ES1.NC, 11, SR1.ch1, 0V]
+          - ["+24", LS1.NC, 12, SR1.ch2, 0V]
+      - paths:
+          - ["+24", K1.NC, 21, PB3.NO, 23, SR1.feedback, 0V]
+      - paths:
+          - [L1, SR1.NO, 5, K1.coil, X2]
+    """)
+
+
+def test_safety_relay_needs_both_channels_and_a_reset():
+    sim = Circuit(load_schematic(SAFETY)).simulator()
+    sim.reset()
+    assert not sim.energized("K1")  # no reset yet
+    sim.press("PB3")
+    sim.release("PB3")
+    assert sim.energized("K1") and sim.state_of("SR1")
+    sim.press("LS1")  # channel 2 opens (guard)
+    assert not sim.energized("K1")
+    sim.release("LS1")
+    assert not sim.energized("K1")  # both channels closed again, but it waits for a reset
+    sim.press("ES1")
+    sim.press("PB3")
+    assert not sim.energized("K1")  # a reset with a channel open does nothing
+    sim.release("PB3")
+    sim.release("ES1")
+    assert not sim.energized("K1")
+    sim.power(False)
+    sim.power(True)
+    sim.press("PB3")
+    assert sim.energized("K1")
+
+
+def test_safety_relay_terminals():
+    sch = load_schematic(SAFETY)
+    marks = assign(sch)
+    assert [(el.part, marks[el.index].pair) for el in sch.elements if el.tag == "SR1"] == [
+        ("power", "A1-A2"), ("ch1", "S11-S12"), ("ch2", "S21-S22"), ("feedback", "Y1-Y2"), ("NO", "13-14")]
