@@ -98,6 +98,7 @@ def assign(sch: Schematic, kinds: KindRegistry | None = None) -> dict[int, Marks
     kinds = kinds or KindRegistry.builtin()
     marks: dict[int, Marks] = {}
     taken: dict[str, set[int]] = {}      # device tag -> sequence numbers used by written marks
+    overload_used: dict[str, set[str]] = {}  # overload tag -> NO/NC whose 95-96 / 97-98 are taken
     for el in sch.elements:
         written = getattr(el, "terminals", None)
         if written:
@@ -106,8 +107,11 @@ def assign(sch: Schematic, kinds: KindRegistry | None = None) -> dict[int, Marks
                 m = _SEQUENCE_RE.match(t)
                 if m:
                     taken.setdefault(el.tag, set()).add(int(m.group(1)))
+            if {"95", "96"} & set(written):
+                overload_used.setdefault(el.tag, set()).add("NC")
+            if {"97", "98"} & set(written):
+                overload_used.setdefault(el.tag, set()).add("NO")
     next_seq: dict[str, int] = {}
-    overload_used: dict[str, set[str]] = {}
     poles: dict[str, list[dict[str, Element | None]]] = {}   # changeover poles in use per device
     for el in sch.elements:
         if el.index in marks:

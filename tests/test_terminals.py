@@ -237,3 +237,18 @@ def test_diff_reports_changed_written_numbers(tmp_path, capsys):
     main(["diff", str(a), str(b)])
     out = capsys.readouterr().out
     assert "PB1.NC on wires L1-2 (terminals 11-12 -> 21-22)" in out
+
+
+def test_an_overload_contact_written_95_96_leaves_the_other_nc_unnumbered():
+    sch = load("""\
+        rungs:
+          - paths:
+              - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]
+              - [2, M1.NO, 3]
+          - paths:
+              - [L1, OL1.NC 95-96, 5, PL1, X2]
+        """).schematic
+    marks = assign(sch)
+    first, written = [el for el in sch.elements if el.tag == "OL1"]
+    assert first.index not in marks  # 95-96 is written on the other one: a second NC must be written
+    assert marks[written.index].pair == "95-96"
