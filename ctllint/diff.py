@@ -10,7 +10,8 @@ a controls engineer wants to know which devices, contacts and wires did.
 - rungs added, removed, changed or moved. Rungs are matched by title, then
   by content similarity, never by position alone, so inserting a rung does
   not show every later rung as changed;
-- within a matched rung, elements added, removed, or moved to other wires;
+- within a matched rung, elements added, removed, or moved to other wires,
+  and elements whose written terminal numbers changed (`CR1.NO 13-14`);
 - wires renumbered: a consistent renaming of non-rail wire names (old ->
   new, one to one) under which the element connections are the same is
   shown as "wire 3 -> 13", not as every element removed and added again;
@@ -813,14 +814,18 @@ def _element_changes(a: Rung, b: Rung, wires: _Wires) -> list[ElementDiff]:
     for e in a.elements:
         old_left[(e.text, frozenset((wires(e.left), wires(e.right))))].append(e)
     new_rest = []
+    out: list[ElementDiff] = []
     for e in b.elements:
         bucket = old_left.get((e.text, frozenset((e.left, e.right))))
         if bucket:
-            bucket.pop(0)
+            o = bucket.pop(0)
+            before, after = _written_terminals(o, wires), _written_terminals(e, lambda w: w)
+            if before != after:
+                out.append(ElementDiff(CHANGED, e.text, (o.left, o.right), (e.left, e.right), o.loc.line, e.loc.line,
+                                       f"terminals {_terminals_text(o)} -> {_terminals_text(e)}"))
         else:
             new_rest.append(e)
     old_rest = sorted((e for bucket in old_left.values() for e in bucket), key=lambda e: e.index)
-    out: list[ElementDiff] = []
     by_text_old: dict[str, list] = defaultdict(list)
     for e in old_rest:
         by_text_old[e.text].append(e)
@@ -838,6 +843,17 @@ def _element_changes(a: Rung, b: Rung, wires: _Wires) -> list[ElementDiff]:
     out += [ElementDiff(REMOVED, e.text, (e.left, e.right), None, e.loc.line, None) for e in removed]
     out += [ElementDiff(ADDED, e.text, None, (e.left, e.right), None, e.loc.line) for e in added]
     return sorted(out, key=lambda d: (d.new_line or d.old_line or 0, d.old_line or 0))
+
+
+def _written_terminals(e, translate) -> dict[str, str] | None:
+    """Which written terminal each wire of ``e`` lands on (wires translated), None when none are written."""
+    if not e.terminals:
+        return None
+    return {translate(e.left): e.terminals[0], translate(e.right): e.terminals[1]}
+
+
+def _terminals_text(e) -> str:
+    return "-".join(e.terminals) if e.terminals else "not written"
 
 
 def _rungs(old: Schematic | None, new: Schematic | None, wires: _Wires) -> tuple[list[RungDiff], list[tuple[Rung, Rung, str]]]:

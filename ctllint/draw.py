@@ -21,6 +21,9 @@ Layout, rung by rung:
   a dot where three or more conductors meet.
 - Each coil's row carries, right of the common rail, the rungs where the
   coil's contacts are used: ``NO 2, 5  NC 7``.
+- Each element's terminal numbers (written in the file, or assigned as
+  ``ctllint.terminals`` says) stand in small type under its two leads,
+  each beside the wire that lands on it.
 - A finding is matched to what it points at by file, line and column: an
   element, or every rung element of a device whose tag or field it names.
   The element gets an outline in the colour of its worst finding, and each
@@ -44,6 +47,8 @@ from xml.sax.saxutils import escape, quoteattr
 
 from .kinds import INSTANT_PARTS, contact_sense
 from .model import Diagnostic, Element, Location, Rung, Schematic, Severity, Supply
+from .kinds import selector_parts
+from .terminals import Marks, assign as assign_terminals
 
 # -- fonts and measures -----------------------------------------------------------
 
@@ -60,6 +65,10 @@ SIZE_RUNG = 12      # rung numbers
 SIZE_XREF = 10
 SIZE_RULE = 9       # rule names under marked elements
 SIZE_CAPTION = 10
+SIZE_TERMINAL = 8   # terminal numbers under an element's leads
+TERMINAL_BELOW = 19  # their baseline below the row line
+TERMINAL_GAP = 4     # each ends (left) or starts (right) this far from the element's centre
+OUTLINE_HEIGHT = 52  # a marked element's outline, from 29 above its row line to 23 below (terminal numbers inside)
 SIZE_RAIL = 12
 
 LEFT_MARGIN = 64        # room for rung numbers left of the hot rail
@@ -71,7 +80,7 @@ LABEL_ABOVE = 17        # element label baseline above the row line
 WIRE_ABOVE = 4          # wire number baseline above the row line
 ROW_TOP = 32            # from a row's top to its line
 ROW_BOTTOM = 18         # from a row's line to its bottom, without rule lanes
-LANE_FIRST = 27         # first rule-name baseline below the row line
+LANE_FIRST = 33         # first rule-name baseline below the row line (under the terminal numbers)
 LANE_STEP = 11
 XREF_STEP = 13
 RUNG_GAP = 8
@@ -87,6 +96,7 @@ TEXT_SIZE = {
     "title": SIZE_TITLE, "sub": SIZE_SUB, "tag": SIZE_TAG, "letter": SIZE_TAG, "wire": SIZE_WIRE,
     "rungno": SIZE_RUNG, "xref": SIZE_XREF, "caption": SIZE_CAPTION, "railname": SIZE_RAIL,
     "supply": SIZE_SUB, "rule": SIZE_RULE, "legend": SIZE_SUB, "changelabel": SIZE_RULE,
+    "termno": SIZE_TERMINAL,
 }
 
 INK = "#1b1f24"
@@ -103,6 +113,12 @@ SEVERITY_TINT = {Severity.ERROR: "#fdecea", Severity.WARNING: "#fff4e0", Severit
 CHANGE_COLOUR = {"removed": "#a8336f", "moved-from": "#a8336f", "added": "#00785a", "moved-to": "#00785a"}
 CHANGE_TINT = {"removed": "#f9e8f1", "moved-from": "#f9e8f1", "added": "#e3f4ee", "moved-to": "#e3f4ee"}
 CHANGE_DASH = {"removed": "6 3", "moved-from": "6 3", "added": "", "moved-to": ""}
+
+# A safety relay's inputs, written in their box.
+SAFETY_INPUT_TEXT = {"power": "PWR", "ch1": "CH1", "ch2": "CH2", "feedback": "FB"}
+
+# Resistive loads, drawn as a rectangle (heaters with a zigzag inside).
+RESISTIVE_KINDS = ("space-heater", "panel-heater", "resistor")
 
 # Letters for loads that are neither coils nor lamps (a circle with a letter).
 LOAD_LETTER = {"solenoid": "S", "horn": "H", "plc-input": "I"}
@@ -157,6 +173,8 @@ class Placed:
     cx: float = 0.0
     y: float = 0.0
     mark: Mark | None = None
+    terminals: Marks | None = None  # the element's terminal numbers (its left wire's first)
+    closed_in: tuple[str, ...] = ()  # a selector part: the positions it is closed in
 
 
 @dataclass
@@ -273,6 +291,7 @@ class CoilUse:
     tag: str
     no: list[int]
     nc: list[int]
+    other: dict[str, list[int]] = field(default_factory=dict)  # contacts of other names (an alternating relay's A, B)
 
     def text(self) -> str:
         parts = []
@@ -280,6 +299,8 @@ class CoilUse:
             parts.append("NO " + ", ".join(map(str, self.no)))
         if self.nc:
             parts.append("NC " + ", ".join(map(str, self.nc)))
+        for name, rungs in self.other.items():
+            parts.append(f"{name} " + ", ".join(map(str, rungs)))
         return "  ".join(parts) if parts else "no contacts used"
 
 
@@ -293,13 +314,15 @@ def coil_uses(sch: Schematic) -> dict[str, CoilUse]:
     uses: dict[str, CoilUse] = {}
     for el in sch.elements:
         sense = contact_sense(el.part)
-        if sense is None:
-            continue
-        uses.setdefault(el.tag, CoilUse(el.tag, [], []))
-        (uses[el.tag].no if sense == "NO" else uses[el.tag].nc).append(numbers[el.rung])
+        if sense is not None:
+            uses.setdefault(el.tag, CoilUse(el.tag, [], []))
+            (uses[el.tag].no if sense == "NO" else uses[el.tag].nc).append(numbers[el.rung])
+        elif el.role == "contact" and el.part is not None:
+            uses.setdefault(el.tag, CoilUse(el.tag, [], [])).other.setdefault(el.part, []).append(numbers[el.rung])
     for use in uses.values():
         use.no.sort()
         use.nc.sort()
+        use.other = {name: sorted(rungs) for name, rungs in sorted(use.other.items())}
     return uses
 
 
@@ -589,6 +612,7 @@ def _css(prefix: str, marks: bool = False) -> str:
         f"{p}.wire{{fill:{WIRE_INK}}}",
         f"{p}.rungno{{fill:{INK};font-weight:bold}}",
         f"{p}.xref{{fill:{MUTED}}}",
+        f"{p}.termno{{fill:{MUTED}}}",
         f"{p}.caption{{fill:{MUTED};font-style:italic}}",
         f"{p}.railname{{fill:{INK};font-weight:bold}}",
         f"{p}.supply{{fill:{MUTED}}}",
@@ -626,6 +650,14 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
             svg.line(cx - 11, y + 10, cx + 11, y - 10, "sym")
         if kind == "timer" and part not in INSTANT_PARTS:  # timed contact: a small arc over the bars
             svg.add(f'<path class="sym" d="M{_n(cx - 7)} {_n(y - 13)} Q{_n(cx)} {_n(y - 7)} {_n(cx + 7)} {_n(y - 13)}"/>')
+    elif role == "load" and kind in RESISTIVE_KINDS:
+        # a resistor: a rectangle on the wire (IEC 60617 style); a heater: the same with a heating zigzag inside
+        svg.line(cx - h, y, cx - 12, y, "sym")
+        svg.line(cx + 12, y, cx + h, y, "sym")
+        svg.add(f'<rect class="symfill" x="{_n(cx - 12)}" y="{_n(y - 6)}" width="24" height="12"/>')
+        if kind != "resistor":
+            pts = " ".join(f"{_n(cx - 9 + 3 * k)},{_n(y + (3 if k % 2 else -3))}" for k in range(7))
+            svg.add(f'<polyline class="sym" points="{pts}"/>')
     elif role == "load":
         svg.line(cx - h, y, cx - 11, y, "sym")
         svg.line(cx + 11, y, cx + h, y, "sym")
@@ -634,6 +666,11 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
             d = 7.8
             svg.line(cx - d, y - d, cx + d, y + d, "sym")
             svg.line(cx - d, y + d, cx + d, y - d, "sym")
+        elif kind == "safety-relay":  # a safety relay's inputs: a box named after the input
+            svg.add(f'<rect class="symfill" x="{_n(cx - 12)}" y="{_n(y - 12)}" width="24" height="24"/>')
+            svg.text(cx, y + 3, SAFETY_INPUT_TEXT.get(part or "", "?"), "termno", "middle")
+        elif part in ("set", "reset") and kind == "latching-relay":  # a latching relay's two coils: S and R
+            svg.text(cx, y + 4, "S" if part == "set" else "R", "letter", "middle")
         elif part != "coil":
             letter = LOAD_LETTER.get(kind, (kind[:1] or "?").upper())
             svg.text(cx, y + 4, letter, "letter", "middle")
@@ -669,7 +706,7 @@ def _change_outline(svg: _Svg, p: Placed, half: float, grow: float) -> None:
     a minus for what left (removed, moved away), a plus for what arrived."""
     cx, y = p.cx, p.y
     change = p.mark.change if p.mark else ""
-    svg.add(f'<rect class="change chg-{change}" x="{_n(cx - half)}" y="{_n(y - 29 - grow)}" width="{_n(2 * half)}" height="{_n(44 + 2 * grow)}" rx="5"/>')
+    svg.add(f'<rect class="change chg-{change}" x="{_n(cx - half)}" y="{_n(y - 29 - grow)}" width="{_n(2 * half)}" height="{_n(OUTLINE_HEIGHT + 2 * grow)}" rx="5"/>')
     bx, by = cx + half, y - 29 - grow
     svg.add(f'<circle cx="{_n(bx)}" cy="{_n(by)}" r="5.5" fill="{CHANGE_COLOUR.get(change, INK)}"/>')
     svg.line(bx - 3, by, bx + 3, by, "chgbadge")
@@ -766,7 +803,7 @@ def _xref_lines(uses: list[CoilUse], width: float) -> list[tuple[str, str]]:
             continue
         pad = " " * len(prefix)
         first = True
-        for name, numbers in (("NO", use.no), ("NC", use.nc)):
+        for name, numbers in (("NO", use.no), ("NC", use.nc), *use.other.items()):
             if not numbers:
                 continue
             text = f"{name} " + ", ".join(map(str, numbers))
@@ -779,7 +816,7 @@ def _xref_lines(uses: list[CoilUse], width: float) -> list[tuple[str, str]]:
 def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: str = "", legend: bool = True,
            finding_links: dict[Diagnostic, str] | None = None, header: bool = True,
            rungs: Iterable[int] | None = None, marks: dict[int, Mark] | None = None,
-           min_columns: int = MIN_COLUMNS) -> Drawing:
+           min_columns: int = MIN_COLUMNS, kind_registry=None) -> Drawing:
     """Lay out and draw ``sch`` with ``diagnostics`` marked on their elements.
 
     ``id_prefix`` starts every id in the SVG, so that several drawings can
@@ -796,7 +833,9 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
     style with a +/- badge, and its label under the element (as for a
     review of changes). ``min_columns`` widens the drawing to at least that
     many columns, so that two drawings can be laid out on the same grid
-    (``Drawing.columns`` tells how many a drawing used).
+    (``Drawing.columns`` tells how many a drawing used). ``kind_registry``
+    (a ``KindRegistry``, default the built-in kinds) numbers the terminals
+    of plugins' kinds too.
     """
     links = finding_links or {}
     marks = marks or {}
@@ -847,6 +886,7 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
         return x
 
     kinds = {tag: dev.kind for tag, dev in sch.devices.items()}
+    terminal_marks = assign_terminals(sch, kind_registry)
     element_ids: dict[int, str] = {}
     anchors: dict[Diagnostic, str] = {}
     for lay in layouts:
@@ -857,6 +897,10 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
                 p.anchor = f"{pre}el-{p.element.index}"
                 p.findings = by_element.get(p.element.index, [])
                 p.mark = marks.get(p.element.index)
+                p.terminals = terminal_marks.get(p.element.index)
+                dev = sch.devices.get(p.element.tag)
+                if p.kind == "selector" and dev is not None:
+                    p.closed_in = selector_parts(dev).get(p.element.part or "", ())
                 element_ids[p.element.index] = p.anchor
                 for d in p.findings:
                     anchors.setdefault(d, p.anchor)
@@ -868,7 +912,7 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
             if rp.row != row:
                 continue
             for p in rp.placed:
-                if p.element.part == "coil":
+                if p.element.part == "coil" or (p.element.part, p.kind) in (("set", "latching-relay"), ("power", "safety-relay")):
                     out.append(uses.get(p.element.tag, CoilUse(p.element.tag, [], [])))
         return out
 
@@ -1113,17 +1157,30 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
                 data += f' data-findings={quoteattr(rules)} data-severity="{worst}"'
             if p.mark is not None:
                 data += f' data-change="{p.mark.change}" data-change-label={quoteattr(p.mark.label)}'
+            if p.closed_in:
+                data += f' data-closed-in={quoteattr(" ".join(p.closed_in))}'
+            if p.terminals is not None:
+                data += f' data-terminals={quoteattr(p.terminals.pair)}' + (' data-terminals-written="true"' if p.terminals.written else "")
             svg.add(f'<g class="el" id="{p.anchor}"{data}>')
             what = f"; {p.mark.label}" if p.mark is not None else ""
-            svg.add(f"<title>{escape(el.text)} (line {el.loc.line}, wires {escape(el.left)}\u2013{escape(el.right)}{escape(what)})</title>")
+            terms = f", terminals {p.terminals.pair}" if p.terminals is not None else ""
+            if p.closed_in:
+                terms += f", closed in {', '.join(p.closed_in)}"
+            svg.add(f"<title>{escape(el.text)} (line {el.loc.line}, wires {escape(el.left)}\u2013{escape(el.right)}{escape(terms)}{escape(what)})</title>")
             if p.mark is not None:
                 _change_outline(svg, p, _outline_half(p, col_w) + (3 if p.findings else 0), 3 if p.findings else 0)
             if p.findings:
                 worst = max(d.severity for d in p.findings)
                 half = _outline_half(p, col_w)
-                svg.add(f'<rect class="outline mark-{worst}" x="{_n(p.cx - half)}" y="{_n(p.y - 29)}" width="{_n(2 * half)}" height="44" rx="5"/>')
+                svg.add(f'<rect class="outline mark-{worst}" x="{_n(p.cx - half)}" y="{_n(p.y - 29)}" width="{_n(2 * half)}" height="{OUTLINE_HEIGHT}" rx="5"/>')
             _symbol(svg, p, p.kind)
             svg.text(p.cx, p.y - LABEL_ABOVE, label, "tag", "middle")
+            if p.terminals is not None:
+                # Each number beside the lead its wire lands on: the drawing may turn an element round.
+                flipped = el.left != el.right and lay.wire_of.get(p.left, p.left) != el.left
+                left, right = (p.terminals.right, p.terminals.left) if flipped else (p.terminals.left, p.terminals.right)
+                svg.text(p.cx - TERMINAL_GAP, p.y + TERMINAL_BELOW, left, "termno", "end")
+                svg.text(p.cx + TERMINAL_GAP, p.y + TERMINAL_BELOW, right, "termno", "start")
             svg.add("</g>")
 
     # Wire numbers, above the elements' outlines.

@@ -123,6 +123,11 @@ section.file{background:#fff;border:1px solid #d6dbe0;border-radius:6px;margin:0
 .nodraw{color:#5c6670;font-style:italic}
 .drawing{overflow-x:auto;border:1px solid #e1e5e9;border-radius:4px;background:#fff}
 .drawing svg{display:block}
+details.wirelist{margin:12px 0 0}
+details.wirelist summary{cursor:pointer;font-weight:600}
+table.wires{margin-top:6px;border:1px solid #e1e5e9;width:auto}
+table.wires td{font-family:'DejaVu Sans Mono',Menlo,Consolas,monospace;font-size:12px;padding:2px 10px}
+table.wires tr.w-field td{color:#1d5fa6}
 .drawing .el,.drawing .section,.findings tr{scroll-margin-top:140px}
 .drawing a text{text-decoration:underline}
 footer{color:#5c6670;padding-bottom:32px;font-size:13px}
@@ -232,9 +237,27 @@ def _file_section(i: int, f: FileReport, changed_since: str | None = None) -> li
         out.append("</tbody></table>")
     if drawing is not None:
         out.append(f'<div class="drawing" id="{prefix}drawing-box">{drawing.svg}</div>')
+        out.extend(_wire_sheet(prefix, f.schematic))
     else:
         out.append('<p class="nodraw">Not drawn: the file does not load (see its format findings).</p>')
     out.append("</section>")
+    return out
+
+
+def _wire_sheet(prefix: str, sch: Schematic) -> list[str]:
+    """The wire list (as ``ctllint export wires`` writes it) as a folded table under the drawing."""
+    from .export import conductor_rows
+
+    rows = conductor_rows(sch)
+    if not rows:
+        return []
+    out = [f'<details class="wirelist" id="{prefix}wires"><summary>Wire list: {_plural(len(rows), "conductor")}'
+           " (as <code>ctllint export wires</code> writes it)</summary>",
+           '<table class="wires"><thead><tr><th>wire</th><th>from</th><th>to</th><th>where</th></tr></thead><tbody>']
+    for c in rows:
+        out.append(f'<tr class="w-{c.where}"><td>{escape(c.wire)}</td><td>{escape(str(c.start))}</td>'
+                   f"<td>{escape(str(c.end))}</td><td>{c.where}</td></tr>")
+    out.append("</tbody></table></details>")
     return out
 
 

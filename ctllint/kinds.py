@@ -27,6 +27,7 @@ CONTACTS = "contacts"        # ContactCount
 RATING = "rating"            # ContactRating
 POWER_RATING = "power_rating"  # PowerRating
 POSITIONS = "positions"      # a list of position names
+CAMS = "cams"                # a selector's cam table: contact block name -> positions it is closed in
 SPEEDS = "speeds"            # a multi-speed motor's speeds: name -> {power, fla}
 
 # Contact parts: NO/NC, and a timer's instantaneous contacts (FORMAT.md
@@ -53,6 +54,12 @@ class FieldSpec:
     doc: str = ""
 
 
+# ``location: panel | field`` (every kind): outside the panel, a field device's wires pass the terminal strip.
+# Absent, the kind decides (ctllint.export.FIELD_KINDS: pushbuttons, switches, solenoids, motors, heaters).
+LOCATION = FieldSpec(TEXT, choices=("panel", "field"),
+                     doc="panel or field (outside the panel: its wires pass the terminal strip); default by kind")
+
+
 @dataclass(frozen=True)
 class DeviceKind:
     """What a device kind is made of.
@@ -74,8 +81,14 @@ class DeviceKind:
     inductive: bool = False
     mechanical: bool = False
     positions: bool = False  # selector: one part per position
+    contact_parts: tuple[str, ...] = ()  # parts other than NO/NC that are contacts (an alternating relay's A, B)
+    coil_parts: tuple[str, ...] = ()  # coils with names of their own instead of ``coil`` (a latching relay's set, reset)
     doc: str = ""
     plugin: str = "core"
+
+    def __post_init__(self) -> None:
+        # Every kind may say where the device stands (``ctllint export``'s terminal plan).
+        self.fields.setdefault("location", LOCATION)
 
     @property
     def used_in_rungs(self) -> bool:
@@ -85,9 +98,11 @@ class DeviceKind:
         """Role of ``TAG.PART`` (or bare ``TAG`` when part is None), None if the kind lacks it."""
         if part is None:
             return self.bare
-        if part == "coil" and self.coil:
+        if part in self.coil_parts or (part == "coil" and self.coil and not self.coil_parts):
             return "load"
         if part in CONTACT_PARTS and part in self.parts:
+            return "contact"
+        if part in self.contact_parts:
             return "contact"
         return None
 
@@ -142,6 +157,7 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
         {
             "positions": FieldSpec(POSITIONS, doc="position names, the first is the rest position"),
             "action": FieldSpec(TEXT, choices=("maintained", "spring-return"), default="maintained"),
+            "cams": FieldSpec(CAMS, doc="cam table: contact block name -> the positions it is closed in (TAG.<block>)"),
             **_CONTACT_FIELDS,
         },
         required=("positions",),
@@ -254,6 +270,66 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
 )
 
 
+# Resistive loads in rungs: current W / V at the supply's voltage, no inrush, not inductive.
+_RESISTIVE_FIELDS = {
+    "voltage": FieldSpec(VOLTAGE, doc="rated voltage"),
+    "power": FieldSpec(POWER, doc="rated power (W): its current is W / V, inrush the same"),
+}
+BUILTIN_KINDS += tuple(
+    DeviceKind(name, dict(_RESISTIVE_FIELDS), bare="load", doc=doc)
+    for name, doc in (
+        ("space-heater", "anti-condensation heater of a motor or enclosure, switched in a rung"),
+        ("panel-heater", "heater inside the control panel, usually under a thermostat"),
+        ("resistor", "a resistive load: a discharge or load resistor"),
+    )
+)
+# An alternating relay: each time its coil drops out, the other output takes the next turn
+# (A on the first cycle, B on the second, ...): duplex pumps share the running hours.
+BUILTIN_KINDS += (
+    DeviceKind(
+        "alternating-relay",
+        {k: v for k, v in _COIL_FIELDS.items() if k != "contacts"},
+        parts=("coil", "A", "B"),
+        coil=True,
+        inductive=True,
+        contact_parts=("A", "B"),
+        doc="coil; contact A closed while the coil is on in A's turn, B in B's; the turn passes at each drop-out",
+    ),
+    # A latching relay: its set coil closes its NO contacts, its reset coil opens them again,
+    # and they stay as they are without power.
+    DeviceKind(
+        "latching-relay",
+        dict(_COIL_FIELDS),
+        parts=("set", "reset", "NO", "NC"),
+        coil=True,
+        inductive=True,
+        coil_parts=("set", "reset"),
+        doc="set and reset coils; the contacts hold their state without power",
+    ),
+    # A safety relay module: power terminals, two input channels and a feedback (reset) loop, all
+    # electronic inputs on its supply; its safety outputs (NO) close once power and both channels
+    # are on and the feedback loop has been closed, and open as soon as power or a channel drops.
+    DeviceKind(
+        "safety-relay",
+        {
+            "coil": FieldSpec(VOLTAGE, doc="rated supply voltage of the module (power terminals and inputs)"),
+            **_CONTACT_FIELDS,
+        },
+        parts=("power", "ch1", "ch2", "feedback", "NO", "NC"),
+        coil=True,
+        coil_parts=("power", "ch1", "ch2", "feedback"),
+        doc="power, ch1, ch2 and feedback inputs; NO safety outputs, NC auxiliary contacts",
+    ),
+)
+
+
+def coil_parts(kind: DeviceKind | None) -> tuple[str, ...]:
+    """The names of a kind's coils in paths: ``("coil",)``, or its own (``("set", "reset")``); () without a coil."""
+    if kind is None or not kind.coil:
+        return ()
+    return kind.coil_parts or ("coil",)
+
+
 @dataclass
 class KindRegistry:
     """The device kinds known for one run: the built-ins plus plugins' kinds."""
@@ -283,3 +359,16 @@ CONTACT = "contact"
 OUTPUT = "output"
 CONDUCTOR = "conductor"
 SWITCHING_ROLES = (CONTACT, OUTPUT)
+
+
+def selector_parts(device) -> dict[str, tuple[str, ...]]:
+    """A selector's parts and the positions each is closed in.
+
+    Each position ``p`` is a part closed in ``p`` alone (``SS1.hand``); each
+    block of the cam table (``cams: {HA: [hand, auto]}``) a part closed in
+    every position it lists (``SS1.HA``).
+    """
+    parts = {str(p): (str(p),) for p in (device.get("positions") or ())}
+    for name, closed in (device.get("cams") or {}).items():
+        parts.setdefault(name, tuple(closed))
+    return parts

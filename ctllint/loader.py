@@ -38,6 +38,7 @@ from .model import (
     Supply,
 )
 from .quantities import QuantityError, parse_quantity
+from .terminals import assign as assign_terminals, conflicts as terminal_conflicts, parse as parse_terminals
 from .yamlsafe import STD, Limits, MappingNode, Node, ScalarNode, SequenceNode, YamlProblem, check_tree, compose, pos, scalar_value, within
 
 FORMAT_VERSION = 1
@@ -515,8 +516,8 @@ class _Loader:
                 if single in dev.fields:
                     self.error(fields[single][0], f"{kind_name} {tag} gives 'speeds': its {single} goes under each speed, not on the motor itself")
                     ok = False
-        if kind.positions and "positions" in dev.fields:
-            pass
+        if "cams" in dev.fields and "cams" in fields:
+            ok = self.check_cams(dev, fields["cams"][1]) and ok
         for name, spec in kind.fields.items():
             if name not in dev.fields and spec.default is not None:
                 dev.fields[name] = spec.default
@@ -576,6 +577,16 @@ class _Loader:
             if len(names) < 2:
                 self.fail(node, f"{what} needs at least two positions")
             return names
+        if t == K.CAMS:
+            cams = {}
+            for name, kn, vn in self.mapping(node, what):
+                if not TAG_RE.match(name):
+                    self.fail(kn, f"contact block name '{name}' holds a dot or a space: it is used as a part name (TAG.{name})")
+                items = self.sequence(vn, f"positions of block {name}")
+                if not items:
+                    self.fail(vn, f"block {name} of the cam table is closed in no position")
+                cams[name] = tuple(self.wire(n, "position name") for n in items)
+            return cams
         if t == K.CONTACTS:
             return self.read_contacts(node, what, kind)
         if t == K.SPEEDS:
@@ -585,6 +596,28 @@ class _Loader:
         if t == K.POWER_RATING:
             return self.shared(self.read_power_rating(node, what))
         self.fail(node, f"{what}: field type '{t}' is not known to this ctllint")
+
+    def check_cams(self, dev: Device, node: Node) -> bool:
+        """Each cam block names positions the selector has, and no block is named as a position."""
+        positions = [str(p) for p in (dev.get("positions") or ())]
+        ok = True
+        for name, kn, vn in self.mapping(node, f"cams of {dev.tag}"):
+            if name in positions:
+                self.error(kn, f"block {name} of {dev.tag}'s cam table has the name of a position; {dev.tag}.{name} already means "
+                               "the contact closed in that position alone: name the block otherwise (e.g. HA for hand and auto)")
+                ok = False
+                continue
+            seen: set[str] = set()
+            for item in vn.value if isinstance(vn, SequenceNode) else ():
+                value = str(scalar_value(item))
+                if value not in positions:
+                    self.error(item, f"block {name} of {dev.tag} is closed in '{value}', which is not one of its positions ({', '.join(positions)})")
+                    ok = False
+                elif value in seen:
+                    self.error(item, f"block {name} of {dev.tag} lists position '{value}' twice")
+                    ok = False
+                seen.add(value)
+        return ok
 
     def read_speeds(self, node: Node, what: str) -> tuple[MotorSpeed, ...]:
         """``speeds: {low: {power: 10 hp, fla: 14 A}, high: {...}}`` (FORMAT.md "Additions")."""
@@ -907,18 +940,27 @@ class _Loader:
                     if not isinstance(value, str):
                         self.fail(item, f"'{item.value}' stands where an element belongs: expected TAG or TAG.PART between two wires")
                     m = REF_RE.match(value)
+                    terms = None
+                    if not m and " " in value.strip():  # terminal numbers after a space: CR1.NO 13-14
+                        ref, _, written = value.strip().partition(" ")
+                        m, terms = REF_RE.match(ref), parse_terminals(written.strip())
+                        if m and terms is None:
+                            self.fail(item, f"'{value}': terminal numbers are written after the reference as LEFT-RIGHT, "
+                                            f"two different names of letters, digits, '+', '_' or '/' (e.g. '{ref} 13-14')")
                     if not m:
-                        self.fail(item, f"'{value}' is not an element reference (TAG or TAG.PART)")
+                        self.fail(item, f"'{value}' is not an element reference (TAG or TAG.PART, optionally followed by terminal numbers such as 13-14)")
                     tag, part = m.group("tag", "part")
-                    refs.append((share(tag, tag), part and share(part, part), item))
+                    refs.append((share(tag, tag), part and share(part, part), item, terms))
             except _Stop:
                 ok = False
         if not ok:
             raise _Stop
         elements = []
         located, path, index = Element.located, self.path, rung.index
-        for j, (tag, part, item) in enumerate(refs):
+        for j, (tag, part, item, terms) in enumerate(refs):
             elements.append(located(counter, tag, part, path, *self.position(item), index, wires[j], wires[j + 1]))
+            if terms is not None:
+                elements[-1].terminals = terms
             counter += 1
         return Path.packed(wires, wire_pos, elements, self.loc(node)), counter
 
@@ -1058,10 +1100,17 @@ class _Loader:
                 continue
             kind = self.kinds.get(dev.kind)
             role = kind.part_role(el.part)
-            if role is None and kind.positions and el.part in (dev.get("positions") or ()):
+            if role is None and kind.positions and el.part in K.selector_parts(dev):
                 role = K.CONTACT
             el.role = role or ""
             el.inductive = bool(role == K.LOAD and kind.inductive)
+        self.check_terminals(sch)
+
+    def check_terminals(self, sch: Schematic) -> None:
+        """Written terminal numbers of one device that put two wires on one terminal."""
+        if any(el.terminals for el in sch.elements):
+            for el, message in terminal_conflicts(sch, assign_terminals(sch, self.kinds)):
+                self.error(el.loc, message)
 
 
 def _consume(items: list, node: Node) -> Iterator:

@@ -216,12 +216,15 @@ class Element:
     "contact", "output", "conductor" or "" when unknown. ``text`` is the
     reference as written; ``line`` and ``column`` its position, ``loc`` the
     same as a Location (made when asked for: a panel has many elements).
+    ``terminals`` is the (left, right) pair of terminal numbers written in
+    the file (``CR1.NO 13-14``), or None (see ``ctllint.terminals``).
     """
 
-    __slots__ = ("index", "tag", "part", "_path", "line", "column", "rung", "left", "right", "role", "inductive")
+    __slots__ = ("index", "tag", "part", "_path", "line", "column", "rung", "left", "right", "role", "inductive", "terminals")
 
     def __init__(self, index: int, tag: str, part: str | None, text: str | None, loc: "Location", rung: int,
-                 left: str, right: str, role: str = "", inductive: bool = False):
+                 left: str, right: str, role: str = "", inductive: bool = False,
+                 terminals: tuple[str, str] | None = None):
         if text is not None and text != (tag if part is None else f"{tag}.{part}"):
             raise ValueError(f"element text {text!r} is not TAG or TAG.PART of {tag!r} and {part!r}")
         self.index = index
@@ -233,6 +236,7 @@ class Element:
         self.right = right
         self.role = role
         self.inductive = inductive
+        self.terminals = terminals
 
     @classmethod
     def located(cls, index: int, tag: str, part: str | None, path: str, line: int, column: int, rung: int, left: str, right: str) -> "Element":
@@ -240,6 +244,7 @@ class Element:
         el = cls.__new__(cls)
         el.index, el.tag, el.part, el._path, el.line, el.column = index, tag, part, path, line, column
         el.rung, el.left, el.right, el.role, el.inductive = rung, left, right, "", False
+        el.terminals = None
         return el
 
     @property

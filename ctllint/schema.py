@@ -28,7 +28,8 @@ def _quantity(dimension: str) -> dict[str, Any]:
 
 _WIRE = {"type": ["string", "integer"], "pattern": r"^\S+$", "description": "wire name or number (no spaces)"}
 _TAG = {"type": "string", "pattern": r"^[^.\s]+$", "description": "a device tag"}
-_ELEMENT = {"type": "string", "pattern": r"^[^.\s]+(\.[^.\s]+)?$", "description": "TAG or TAG.PART"}
+_ELEMENT = {"type": "string", "pattern": r"^[^.\s]+(\.[^.\s]+)?( [A-Za-z0-9_+/]+-[A-Za-z0-9_+/]+)?$",
+            "description": "TAG or TAG.PART, optionally followed by its terminal numbers after a space (CR1.NO 13-14)"}
 
 
 def _category(with_power: bool = False) -> dict[str, Any]:
@@ -66,6 +67,9 @@ def _field(spec: K.FieldSpec) -> dict[str, Any]:
         out = {"type": "array", "items": _TAG}
     elif t == K.POSITIONS:
         out = {"type": "array", "items": _WIRE, "minItems": 2, "uniqueItems": True}
+    elif t == K.CAMS:
+        out = {"type": "object", "propertyNames": {"pattern": r"^[^.\s]+$"},
+               "additionalProperties": {"type": "array", "items": _WIRE, "minItems": 1, "uniqueItems": True}}
     elif t == K.CONTACTS:
         count = {"type": "integer", "minimum": 0}
         out = {"oneOf": [
@@ -187,6 +191,8 @@ def kinds_table(kinds: KindRegistry | None = None) -> str:
         parts = []
         if kind.positions:
             parts.append("`TAG.<position>`")
+            if any(spec.type == K.CAMS for spec in kind.fields.values()):
+                parts.append("`TAG.<cam block>`")
         parts += [f"`TAG.{p}`" for p in kind.parts]
         if kind.bare:
             parts.append(f"`TAG` ({kind.bare})")

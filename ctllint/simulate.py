@@ -14,11 +14,23 @@ command that shows states. ``Simulator(circuit)`` holds:
 - PLC outputs on or off (``set: {Q0_3: on}``);
 - for each relay, contactor and starter: whether its contacts are moved;
   for each timer: its coil state, the time spent in it, and whether its
-  timed contacts are moved.
+  timed contacts are moved;
+- for each latching relay: whether it is set (its NO closed): its set coil
+  sets it, its reset coil resets it (reset wins when both are on), and it
+  holds its state without power;
+- for each safety relay: whether its safety outputs are on: they come on
+  when its power, both channels and its feedback (reset) loop are on
+  together, and go off as soon as power or a channel drops (a reset button
+  in the feedback loop: the restart waits for it, and for the mirror
+  contacts in the loop);
+- for each alternating relay: its coil state and whose turn it is (A at
+  rest): A is closed while the coil is on in A's turn, B in B's, and the
+  turn passes to the other output each time the coil drops out.
 
 Conduction: a NO contact is closed when its device is actuated (switch
 pressed or on, overload tripped, coil energized), a NC contact when it is
-not; a selector part is closed in its own position; a fuse or breaker unless
+not; a selector part is closed in its own position (a block of its cam
+table in each position the table lists); a fuse or breaker unless
 tripped; a PLC output when on. Timer contacts: on-delay, they move once the
 coil has been energized continuously for ``preset`` and return as soon as it
 drops; off-delay, they move as soon as the coil energizes and return once it
@@ -72,7 +84,8 @@ _SWITCH_KINDS = {
 _TRIPPABLE = {"overload", "fuse", "breaker"}
 # Kinds whose contacts are never worked by hand (a relay whose coil is in no
 # rung keeps its contacts at rest).
-_NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter"}
+_NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter", "alternating-relay", "latching-relay",
+                 "safety-relay"}
 _EPS = 1e-9
 _MAX_ITERATIONS = 10_000
 _MAX_TIMER_EVENTS = 100_000
@@ -150,15 +163,26 @@ class Simulator:
         self._load_tags: list[str] = list(dict.fromkeys(el.tag for el in self._loads))  # file order, once each
         self._kind = {tag: dev.kind for tag, dev in sch.devices.items()}
         self._positions: dict[str, list[str]] = {}
+        self._cams: dict[str, dict[str, frozenset[str]]] = {}  # selector -> cam block -> positions it is closed in
         self._switches: list[str] = []
         self._trippable: list[str] = []
         self._outputs: list[str] = []
         self._relays: list[str] = []  # coil devices that are not timers, file order
         self._timers: dict[str, _Timer] = {}
+        self._alternators: dict[str, list] = {}
+        # Latching relays: whether each is set. Its set coil sets it, its reset coil resets it (reset wins
+        # when both are on), and power off changes nothing.
+        self._latch_tags = [t for t in self._load_tags if self._kind.get(t) == "latching-relay"]
+        # Safety relays: whether the outputs are on (started). They start when power, both channels
+        # and the feedback loop are on together, and stop as soon as power or a channel drops.
+        self._safety_tags = [t for t in self._load_tags if self._kind.get(t) == "safety-relay"]
+        self._latch_coils: set[tuple[str, str | None]] = set()
         for tag, dev in sch.devices.items():
             kind = dev.kind
             if kind == "selector":
                 self._positions[tag] = [str(p) for p in (dev.get("positions") or [])]
+                if dev.get("cams"):
+                    self._cams[tag] = {name: frozenset(closed) for name, closed in dev.get("cams").items()}
             elif kind in _SWITCH_KINDS:
                 self._switches.append(tag)
             elif kind in _TRIPPABLE:
@@ -173,6 +197,8 @@ class Simulator:
                 preset = dev.get("preset")
                 seconds = float(getattr(preset, "value", preset) or 0.0)
                 self._timers[tag] = _Timer(tag, dev.get("delay") == "off", seconds)
+            elif dev is not None and dev.kind == "alternating-relay":
+                self._alternators[tag] = [False, 0]  # coil on, whose turn (0: A, 1: B)
             else:
                 self._relays.append(tag)
         # Contacts of a kind a plugin adds: coil-driven when the device has a
@@ -207,11 +233,17 @@ class Simulator:
         self.moved = {t: False for t in self._relays}
         for timer in self._timers.values():
             timer.coil, timer.elapsed, timer.out = False, 0.0, False
+        for state in self._alternators.values():
+            state[0], state[1] = False, 0
+        self.latched = {t: False for t in self._latch_tags}
+        self.started = {t: False for t in self._safety_tags}
         self.time = 0.0
         self._energized = {t: False for t in self._load_tags}
 
     def _key(self) -> tuple:
-        return tuple(self.moved[t] for t in self._relays) + tuple((tm.coil, tm.out) for tm in self._timers.values())
+        return (tuple(self.moved[t] for t in self._relays) + tuple((tm.coil, tm.out) for tm in self._timers.values())
+                + tuple(tuple(st) for st in self._alternators.values()) + tuple(self.latched[t] for t in self._latch_tags)
+                + tuple(self.started[t] for t in self._safety_tags))
 
     def _closed(self, el: Element) -> bool:
         role, tag, part = el.role, el.tag, el.part
@@ -223,8 +255,19 @@ class Simulator:
         if role != "contact":
             return False
         if kind == "selector":
-            return self.position.get(tag) == part
-        if kind == "overload":
+            position = self.position.get(tag)
+            if position == part:
+                return True
+            cams = self._cams.get(tag)
+            return bool(cams) and position in cams.get(part, ())
+        if tag in self._alternators:
+            on, turn = self._alternators[tag]
+            return on and part == ("A", "B")[turn]
+        if tag in self.latched:
+            active = self.latched[tag]
+        elif tag in self.started:
+            active = self.started[tag]
+        elif kind == "overload":
             active = self.tripped.get(tag, False)
         elif tag in self._timers:
             timer = self._timers[tag]
@@ -245,6 +288,7 @@ class Simulator:
     def _evaluate(self) -> None:
         """Which loads are energized in the present contact state."""
         state = {t: False for t in self._load_tags}
+        coils: set[tuple[str, str | None]] = set()
         if self.power_on:
             _, find = self._union()
             pairs = {(find(s.hot), find(s.common)) for s in self._supplies}
@@ -252,7 +296,10 @@ class Simulator:
                 a, b = find(el.left), find(el.right)
                 if (a, b) in pairs or (b, a) in pairs:
                     state[el.tag] = True
+                    if el.tag in self.latched or el.tag in self.started:
+                        coils.add((el.tag, el.part))
         self._energized = state
+        self._latch_coils = coils
 
     def _update(self) -> bool:
         """Move contacts after the coils; True when anything changed."""
@@ -261,6 +308,34 @@ class Simulator:
             on = self._energized.get(tag, False)
             if self.moved[tag] != on:
                 self.moved[tag] = on
+                changed = True
+        for tag in self._safety_tags:
+            on = self._latch_coils
+            if not ((tag, "power") in on and (tag, "ch1") in on and (tag, "ch2") in on):
+                started = False
+            elif (tag, "feedback") in on:
+                started = True
+            else:
+                continue
+            if started != self.started[tag]:
+                self.started[tag] = started
+                changed = True
+        for tag in self._latch_tags:
+            if (tag, "reset") in self._latch_coils:
+                latched = False
+            elif (tag, "set") in self._latch_coils:
+                latched = True
+            else:
+                continue
+            if latched != self.latched[tag]:
+                self.latched[tag] = latched
+                changed = True
+        for tag, state in self._alternators.items():
+            on = self._energized.get(tag, False)
+            if on != state[0]:
+                if state[0]:  # dropped out: the cycle is over, the other output has the next turn
+                    state[1] ^= 1
+                state[0] = on
                 changed = True
         for timer in self._timers.values():
             on = self._energized.get(timer.tag, False)
@@ -358,12 +433,18 @@ class Simulator:
 
     def states(self) -> dict[str, bool]:
         """Every load tag, file order, and whether it is energized."""
-        return {t: self._energized.get(t, False) for t in self._load_tags}
+        held = {**self.latched, **self.started}
+        return {t: held[t] if t in held else self._energized.get(t, False) for t in self._load_tags}
 
     def state_of(self, tag: str) -> bool:
         """What a ``check`` of ``tag`` reads: a load's energization; for other
         devices, whether they are actuated (a switch pressed, a PLC output on,
-        an overload or fuse tripped, a selector out of its first position)."""
+        an overload or fuse tripped, a selector out of its first position);
+        for a latching relay, whether it is set."""
+        if tag in self.latched:
+            return self.latched[tag]
+        if tag in self.started:
+            return self.started[tag]
         if tag in self._energized:
             return self._energized[tag]
         if tag in self.actuated:

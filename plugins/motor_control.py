@@ -63,6 +63,15 @@ Choices where the catalogue leaves room:
   (a relay coil it drives counts once, whatever that relay switches). The
   two coils of an interlock pair count as one only where each has an NC
   contact of the other on every energizing path.
+- A ``safety-relay`` module is governed by an emergency stop in its power
+  or in either input channel (its NO safety outputs then count as governed
+  contacts); for ``auto-restart`` its outputs can come on at power return
+  when its feedback loop can (no momentary reset button in it), and a
+  ``latching-relay``'s contacts are taken as possibly closed (it held its
+  state through the outage).
+- ``safety-relay-feedback``: the contactors and starters whose coils a safety
+  relay's NO outputs serve (directly or further down the path) each need an
+  NC contact on every energizing path of its ``feedback`` input.
 """
 from __future__ import annotations
 
@@ -71,11 +80,12 @@ from typing import Iterable, Iterator
 from ctllint import hookimpl
 from ctllint.api import CheckContext, Example, Finding, Option, Rule
 from ctllint.circuit import biconnected_blocks
+from ctllint import kinds as K
 from ctllint.kinds import BUILTIN_KINDS, LOAD
 from ctllint.model import Element, Severity
 
 _KINDS = {k.name: k for k in BUILTIN_KINDS}
-COIL_KINDS = ("relay", "timer", "contactor", "starter")
+COIL_KINDS = ("relay", "timer", "contactor", "starter", "alternating-relay")
 CONTACTOR_KINDS = ("contactor", "starter")
 STOP_FUNCTIONS = ("stop", "emergency-stop")
 
@@ -113,6 +123,11 @@ def _coils(ctx: CheckContext, tag: str) -> list[Element]:
 
 def _contacts(ctx: CheckContext, tag: str, part: str | None = None) -> list[Element]:
     return [e for e in ctx.circuit.elements_of(tag) if e.role == "contact" and (part is None or e.part == part)]
+
+
+def _safety_loads(ctx: CheckContext, *parts: str) -> list[Element]:
+    """The named inputs (``power``, ``ch1``, ``ch2``, ``feedback``) of every safety relay, file order."""
+    return [load for load in ctx.circuit.loads if load.part in parts and getattr(_device(ctx, load.tag), "kind", None) == "safety-relay"]
 
 
 def _coil_loads(ctx: CheckContext) -> list[Element]:
@@ -418,6 +433,38 @@ def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
 
 
 
+def check_safety_relay_feedback(ctx: CheckContext) -> Iterator[Finding]:
+    """Every contactor a safety relay's NO outputs serve has an NC contact in series with its feedback input."""
+    circuit = ctx.circuit
+    for tag, dev in ctx.schematic.devices.items():
+        if dev.kind != "safety-relay":
+            continue
+        switched: list[Element] = []
+        for out in _contacts(ctx, tag, "NO"):
+            for load in circuit.served_loads(out):
+                load_dev = _device(ctx, load.tag)
+                if load.part == "coil" and load_dev is not None and load_dev.kind in CONTACTOR_KINDS and load not in switched:
+                    switched.append(load)
+        if not switched:
+            continue
+        feedback = [load for load in circuit.elements_of(tag) if load.part == "feedback" and load.role == LOAD]
+        if not feedback:
+            yield Finding(dev.loc, f"safety relay {tag} switches {', '.join(c.tag for c in switched)}, but its feedback loop ({tag}.feedback) is drawn "
+                                   "nowhere: wire the NC mirror contact of each in series in it, so a welded contactor blocks the restart", tag)
+            continue
+        loop = feedback[0]
+        missing = [coil for coil in switched
+                   if not any(circuit.in_series(nc, loop) for nc in _contacts(ctx, coil.tag, "NC"))]
+        if missing:
+            yield Finding(
+                loop.loc,
+                f"the feedback loop of safety relay {tag} lacks an NC mirror contact of {', '.join(c.tag for c in missing)} in series: "
+                f"{'it is' if len(missing) == 1 else 'they are'} switched by its safety outputs, and a welded contactor "
+                "would not block the restart; wire an NC auxiliary contact of each in series in the loop",
+                _subject(ctx, loop),
+            )
+
+
 def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
     """("missing" | "bypass" | "ok", contacts the seal bypasses, a path through the bypass)."""
     # The seal is a NO contact of the coil's own device or of another coil the
@@ -495,12 +542,16 @@ def _governed(ctx: CheckContext, tag: str) -> set[int]:
     circuit = ctx.circuit
     cut = list(circuit.elements_of(tag))
     coils = _coil_loads(ctx)
+    # A safety relay drops its outputs when its power or either channel drops: it is governed
+    # when one of those is (the stop in one channel of a dual-channel circuit is enough here;
+    # both channels are the safety relay's own business).
+    inputs = _safety_loads(ctx, "power", "ch1", "ch2")
     governed: set[int] = set()
     done_devices: set[str] = set()
     changed = True
     while changed:
         changed = False
-        for coil in coils:
+        for coil in coils + inputs:
             if coil.index in governed or not circuit.has_energizing_path(coil):
                 continue
             if not circuit.has_energizing_path(coil, without=cut):
@@ -512,6 +563,11 @@ def _governed(ctx: CheckContext, tag: str) -> set[int]:
             if all(c.index in governed for c in _coils(ctx, coil.tag)):
                 done_devices.add(coil.tag)
                 cut.extend(_contacts(ctx, coil.tag, "NO"))
+                changed = True
+        for load in inputs:
+            if load.tag not in done_devices and load.index in governed:
+                done_devices.add(load.tag)
+                cut.extend(_contacts(ctx, load.tag, "NO"))
                 changed = True
     return governed
 
@@ -571,6 +627,10 @@ def _closable_at_power_return(ctx: CheckContext, el: Element) -> bool | None:
         return False  # unknown, a load (never a conductor here), or a PLC output (the program owns restart)
     if el.role == "conductor":
         return True
+    if dev.kind == "latching-relay":
+        return True  # it holds through the outage whatever state it was in: either contact may be closed
+    if dev.kind == "safety-relay":
+        return None if el.part == "NO" else True  # its outputs come on when its feedback loop can (the fixpoint)
     if dev.kind in COIL_KINDS:
         return True if el.part == "NC" else None
     if dev.kind == "overload":
@@ -580,7 +640,7 @@ def _closable_at_power_return(ctx: CheckContext, el: Element) -> bool | None:
     if dev.kind == "selector":
         if (dev.get("action") or "maintained") == "spring-return":
             positions = dev.get("positions") or []
-            return bool(positions) and el.part == positions[0]
+            return bool(positions) and str(positions[0]) in K.selector_parts(dev).get(el.part, ())
         return True
     return _is_mechanical(dev)
 
@@ -598,17 +658,19 @@ def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
         elif not closable:
             blocked.append(el)
     coils = _coil_loads(ctx)
+    # A safety relay restarts by itself when its feedback loop closes with no reset button pressed.
+    starters = coils + _safety_loads(ctx, "feedback")
     on: set[int] = set()
     changed = True
     while changed:
         changed = False
         still_blocked = [e for nos in coil_no.values() for e in nos]
         cut = circuit.cut(blocked + still_blocked)
-        for coil in coils:
+        for coil in starters:
             if coil.index not in on and circuit.has_energizing_path(coil, without=cut):
                 on.add(coil.index)
                 changed = True
-        for coil in coils:
+        for coil in starters:
             if coil.index in on:
                 coil_no.pop(coil.tag, None)
     cut = circuit.cut(blocked + [e for nos in coil_no.values() for e in nos])
@@ -835,6 +897,22 @@ RULES = [
         check=check_auto_restart,
         failing=Example("maintained switch straight to the starter", "rungs:\n  - paths:\n      - [L1, SS1.run, 2, M1.coil, 3, OL1.NC, X2]\n"),
         passing=Example("intended two-wire control", "rungs:\n  - restart: automatic\n    paths:\n      - [L1, FS1.NO, 2, M1.coil, 3, OL1.NC, X2]\n"),
+    ),
+    Rule(
+        name="safety-relay-feedback",
+        severity=Severity.ERROR,
+        summary="a contactor switched by a safety relay's outputs lacks an NC mirror contact in series in its feedback loop",
+        doc=(
+            "A safety relay can only refuse a restart over a welded contactor if it sees the contactor: the NC "
+            "auxiliary (mirror) contact of every contactor or starter its safety outputs switch belongs in series "
+            "in its feedback (reset) loop, so a contactor whose main contacts welded keeps the loop open and the "
+            "outputs off (external device monitoring). A safety relay whose outputs switch contactors and whose "
+            "feedback loop is not drawn is reported too."
+        ),
+        source="common practice (external device monitoring, as ISO 13849-1 categories 3 and 4 ask for)",
+        check=check_safety_relay_feedback,
+        failing=Example("K2's mirror contact missing", "rungs:\n  - paths:\n      - ['+24', K1.NC, 21, PB3.NO, 22, SR1.feedback, 0V]\n  - paths:\n      - [L1, SR1.NO, 5, K1.coil, X2]\n      - [5, K2.coil, X2]\n"),
+        passing=Example("both mirror contacts in the loop", "rungs:\n  - paths:\n      - ['+24', K1.NC, 21, K2.NC, 22, PB3.NO, 23, SR1.feedback, 0V]\n  - paths:\n      - [L1, SR1.NO, 5, K1.coil, X2]\n      - [5, K2.coil, X2]\n"),
     ),
     Rule(
         name="oscillation",

@@ -77,7 +77,7 @@ _HP_TOLERANCE = 0.01
 # its limit (computed through a different float route) is not a finding.
 _SLACK = 1e-9
 
-_COIL_KINDS = ("relay", "timer", "contactor", "starter")
+_COIL_KINDS = ("relay", "timer", "contactor", "starter", "alternating-relay", "latching-relay")
 _CONTACTOR_KINDS = ("contactor", "starter")
 # IEC 60947-4-1 categories that rate main poles for a cage motor (AC-4, the
 # plugging and inching duty, is the harsher one and covers AC-3 duty too).
@@ -695,6 +695,17 @@ def _check_one_overload(ctx, overload, contactor, motor, trip, dial, allowance, 
 PROTECTIVE_FEEDERS = ("drive", "soft-starter", "motor-breaker")
 
 
+def _alternative(contactor: Device, feeders: list[Device]) -> bool:
+    """Whether ``contactor`` runs the motor instead of another feeder (the
+    other direction of a reversing pair, another speed) rather than in
+    series with it. The format draws no power circuit; alternatives are
+    interlocked (``interlock`` names one or the other), series contactors
+    (the redundant pair of a safety circuit) are not."""
+    if contactor.get("interlock") or contactor.get("speed"):
+        return True
+    return any(d.get("interlock") == contactor.tag for d in feeders)
+
+
 def check_motor_overload(ctx) -> Iterator[Finding]:
     """A contactor or starter that feeds a motor has an overload relay, or
     the motor is protected otherwise (NEC 430.32)."""
@@ -712,8 +723,12 @@ def check_motor_overload(ctx) -> Iterator[Finding]:
         others = feeders.get(motor.tag, [])
         if any(d.kind in PROTECTIVE_FEEDERS for d in others):
             continue
-        if contactor.get("role") in ("star", "delta") and any(isinstance(d.get("overload"), str) for d in others):
+        protected = any(isinstance(d.get("overload"), str) for d in others)
+        if protected and contactor.get("role") in ("star", "delta"):
             continue  # a wye-delta starter's overload sits with its line contactor
+        if protected and not _alternative(contactor, others):
+            continue  # a second contactor in series (a monitored safety pair): the overload drops the first
+
         yield Finding(
             at=contactor.loc,
             message=(
@@ -1197,7 +1212,10 @@ rungs:
             "430.32 requires it for continuous-duty motors. A contactor or starter that `feeds` a motor must name "
             "its `overload` relay, unless the motor is marked `protection: integral` (a thermal protector in the "
             "motor, 430.32(A)(2)) or is fed through a device that protects it (a drive). In a wye-delta starter "
-            "the overload sits with the line contactor, so the star and delta contactors need none of their own. "
+            "the overload sits with the line contactor, so the star and delta contactors need none of their own; "
+            "a second contactor in series with a protected one (the redundant pair of a safety circuit) needs "
+            "none either. One that runs the motor instead of another (interlocked: the other direction, "
+            "another speed) needs its own, so that a trip drops it. "
             "Changing `starter` to `contactor` does not take a motor out of this rule. These are US NEC figures; "
             "other codes (CEC, local rules) may differ."
         ),

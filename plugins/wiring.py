@@ -30,6 +30,7 @@ from ctllint.api import CheckContext, Example, Finding, Rule
 from ctllint.circuit import biconnected_blocks, path_text
 from ctllint.model import Device, Element, Schematic, Severity, Supply
 from ctllint.quantities import format_si
+from ctllint.terminals import assign as assign_terminals
 from ctllint.tables import COIL_MAX_FRACTION, COIL_MIN_FRACTION, coil_voltage_ok
 from ctllint.wiresets import WireSets
 
@@ -161,7 +162,7 @@ def check_unknown_device(ctx: CheckContext) -> Iterator[Finding]:
 def _valid_parts(dev: Device, kind: K.DeviceKind) -> list[str]:
     parts = [f"{dev.tag}.{p}" for p in kind.parts]
     if kind.positions:
-        parts += [f"{dev.tag}.{p}" for p in dev.get("positions") or ()]
+        parts += [f"{dev.tag}.{p}" for p in K.selector_parts(dev)]  # positions, then cam blocks
     if kind.bare:
         parts.append(dev.tag)
     return parts
@@ -187,7 +188,7 @@ def check_unknown_part(ctx: CheckContext) -> Iterator[Finding]:
             if el.part is None:
                 why = f"{dev.tag} is {what}: name one of its parts ({valid}), not the bare tag"
             elif kind.positions:
-                why = f"selector {dev.tag} has no position '{el.part}' (its positions give {valid})"
+                why = f"selector {dev.tag} has no position or cam block '{el.part}' (its parts: {valid})"
             else:
                 why = f"{dev.tag} is {what} and has no part '{el.part}' (use {valid})"
         yield Finding(el.loc, f"{el.text} in {_rung(sch, el)}: {why}", _subject(sch, el))
@@ -226,6 +227,15 @@ def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
     sch = ctx.schematic
     used: dict[str, list[int]] = {}
     instant_used: dict[tuple[str, str], int] = {}
+    marks: dict = {}
+
+    def pair(el: Element) -> str:
+        """`` (terminals 23-24)`` of the exceeding use, worked out only once a finding needs it."""
+        if not marks:
+            marks.update(assign_terminals(sch, ctx.kinds) or {None: None})
+        m = marks.get(el.index)
+        return f" (terminals {m.pair})" if m is not None else ""
+
     for el in sch.elements:
         if el.role != K.CONTACT:
             continue
@@ -234,14 +244,14 @@ def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
         if count is None or not hasattr(count, "allows"):
             continue
         kind = _kind(dev, ctx.kinds)
-        if kind is not None and kind.positions and el.part in (dev.get("positions") or ()):
+        if kind is not None and kind.positions and el.part in K.selector_parts(dev):
             tally = used.setdefault(el.tag, [0, 0, 0])
             tally[2] += 1
             blocks = count.no + count.nc + count.changeover
             if tally[2] > blocks:
                 yield Finding(
                     el.loc,
-                    f"{el.text} in {_rung(sch, el)} is position contact number {tally[2]} drawn for selector {el.tag}, "
+                    f"{el.text}{pair(el)} in {_rung(sch, el)} is position contact number {tally[2]} drawn for selector {el.tag}, "
                     f"which provides {_provides(count)} (line {dev.at('contacts').line}), {blocks} contact "
                     f"block{'s' if blocks != 1 else ''} in all; add a contact block, correct `contacts`, or use a relay",
                     _subject(sch, el),
@@ -271,7 +281,7 @@ def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
         if _excess(count, tally[0], tally[1]) > before:
             yield Finding(
                 el.loc,
-                f"{el.text} in {_rung(sch, el)} is {el.part} contact number {tally[0 if el.part == 'NO' else 1]} drawn for {el.tag}, "
+                f"{el.text}{pair(el)} in {_rung(sch, el)} is {el.part} contact number {tally[0 if el.part == 'NO' else 1]} drawn for {el.tag}, "
                 f"which provides {_provides(count)} (line {dev.at('contacts').line}) and {tally[0]} NO + {tally[1]} NC are drawn so far; "
                 "add an auxiliary contact block, correct `contacts`, or use a relay",
                 _subject(sch, el),
@@ -291,6 +301,12 @@ def _has_coil(dev: Device) -> bool:
 def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
     sch = ctx.schematic
     coils = {el.tag for el in sch.elements if el.part == "coil" and el.role == K.LOAD}
+    # A kind with coils of its own names (a latching relay's set and reset) needs every one of them drawn.
+    drawn = {(el.tag, el.part) for el in sch.elements if el.role == K.LOAD}
+    for tag in {el.tag for el in sch.elements if el.role == K.LOAD and el.part != "coil"}:
+        named = K.coil_parts(_kind(sch.devices.get(tag)) if tag in sch.devices else None)
+        if named and named != ("coil",) and all((tag, part) in drawn for part in named):
+            coils.add(tag)
     # A coil drawn as a part the kind lacks (the bare tag M1, or M1.Coil) is
     # reported once, by unknown-part; its contacts are not reported again.
     coils |= {
@@ -306,6 +322,18 @@ def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
         if dev is None or not _has_coil(dev):
             continue
         reported.add(el.tag)
+        named = K.coil_parts(_kind(dev))
+        if named and named != ("coil",):
+            missing = [f"{el.tag}.{p}" for p in named if (el.tag, p) not in drawn]
+            yield Finding(
+                el.loc,
+                f"{el.text} in {_rung(sch, el)} is a contact of {dev.kind} {el.tag}, but {' and '.join(missing)} "
+                f"{'is' if len(missing) == 1 else 'are'} in no rung: the contact "
+                + ("never changes state" if len(missing) == len(named) else "can never return")
+                + "; draw the missing coil or use another device's contact",
+                el.tag,
+            )
+            continue
         yield Finding(
             el.loc,
             f"{el.text} in {_rung(sch, el)} is a contact of {dev.kind} {el.tag}, but {el.tag}.coil is in no rung: "
@@ -316,14 +344,14 @@ def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
 
 def check_coil_duplicate(ctx: CheckContext) -> Iterator[Finding]:
     sch = ctx.schematic
-    first: dict[str, Element] = {}
+    first: dict[tuple[str, str], Element] = {}
     for el in sch.elements:
-        if el.part != "coil" or el.role != K.LOAD:
+        if el.role != K.LOAD or el.part is None or el.part not in K.coil_parts(_kind(sch.devices.get(el.tag)) if el.tag in sch.devices else None):
             continue
-        if el.tag not in first:
-            first[el.tag] = el
+        if (el.tag, el.part) not in first:
+            first[(el.tag, el.part)] = el
             continue
-        one = first[el.tag]
+        one = first[(el.tag, el.part)]
         yield Finding(
             el.loc,
             f"{el.text} in {_rung(sch, el)} is drawn a second time (first in {_rung(sch, one)}, line {one.loc.line}); "
@@ -503,7 +531,9 @@ def check_supply_cross(ctx: CheckContext) -> Iterator[Finding]:
 
 
 def _rated_voltage(dev: Device, el: Element):
-    return dev.get("coil") if el.part == "coil" else dev.get("voltage")
+    if el.part is not None and el.part in K.coil_parts(_kind(dev)):  # coil, or a latching relay's set and reset
+        return dev.get("coil")
+    return dev.get("voltage")
 
 
 def check_voltage_mismatch(ctx: CheckContext) -> Iterator[Finding]:

@@ -19,6 +19,7 @@ MOTOR_CONTROL_RULES = (
     "emergency-stop",
     "auto-restart",
     "oscillation",
+    "safety-relay-feedback",
 )
 
 CASES = os.path.join(os.path.dirname(__file__), "rules")

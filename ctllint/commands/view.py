@@ -91,7 +91,7 @@ def _run_draw(args: argparse.Namespace) -> int:
     if not args.no_findings:
         settings = settings_for(cfg, host, split_names(args.select) or None, split_names(args.ignore))
         diagnostics = Checker(host, settings, cfg.limits).check_file(args.path, display_path=shown).diagnostics
-    drawing = layout(loaded.schematic, diagnostics, legend=not args.no_legend)
+    drawing = layout(loaded.schematic, diagnostics, legend=not args.no_legend, kind_registry=host.kinds)
     write_output(drawing.svg, args.output)
     return EXIT_OK
 
@@ -333,6 +333,9 @@ For each relay, timer, contactor and starter: the rung of its coil, the
 rungs where its NO and NC contacts are used, and the contacts used against
 those its 'contacts' field declares ("available: not declared" when the
 field is absent). A contact used twice in one rung is listed twice.
+TERMINALS gives the coil's terminals and each contact's, in the order of
+the rungs listed (written in the file, or assigned by EN 50005 numbering:
+coil A1-A2, NO x3-x4, NC x1-x2, timed x7-x8 and x5-x6).
 
 exit status: 0 shown, 1 the file does not load, 2 usage error.
 """
@@ -349,16 +352,22 @@ def _rungs_text(numbers: list[int]) -> str:
     return ", ".join(map(str, numbers)) if numbers else "-"
 
 
-def xref_rows(sch: Schematic, coil_kinds: set[str]) -> list[dict[str, str]]:
+def xref_rows(sch: Schematic, coil_kinds: set[str], kinds=None) -> list[dict[str, str]]:
     """One row per device of a coil kind that the rungs use or declare."""
     from ..draw import coil_uses
+    from ..terminals import assign
 
     uses = coil_uses(sch)
+    marks = assign(sch, kinds)
     numbers = {r.index: r.number for r in sch.rungs}
     coil_rung: dict[str, list[int]] = {}
+    terminals: dict[str, dict[str, list[tuple[int, int, str]]]] = {}
     for el in sch.elements:
-        if el.part == "coil":
+        if el.part == "coil" or (el.part in ("set", "power") and el.role == "load"):  # a latching relay's set coil, a safety relay's power
             coil_rung.setdefault(el.tag, []).append(numbers[el.rung])
+        m = marks.get(el.index)
+        if m is not None and el.part in ("coil", "set", "reset", "NO", "NC"):
+            terminals.setdefault(el.tag, {}).setdefault(el.part, []).append((numbers[el.rung], el.index, m.pair))
     rows = []
     tags = [t for t, d in sch.devices.items() if d.kind in coil_kinds]
     tags.sort(key=lambda t: (min(coil_rung.get(t, [10**9])), t))
@@ -394,8 +403,12 @@ def xref_rows(sch: Schematic, coil_kinds: set[str]) -> list[dict[str, str]]:
             "coil": tag,
             "kind": dev.kind,
             "rung": _rungs_text(coil_rung.get(tag, [])) if tag in coil_rung else "no coil",
-            "no": f"{len(no)}: {_rungs_text(no)}" if no else "0",
+            "no": f"{len(no)}: {_rungs_text(no)}" if no else ("  ".join(f"{name}: {_rungs_text(r)}" for name, r in use.other.items())
+                                                               if use and use.other else "0"),
             "nc": f"{len(nc)}: {_rungs_text(nc)}" if nc else "0",
+            "terminals": "  ".join(
+                (f"{part} " if part != "coil" else "") + " ".join(t for _, _, t in sorted(terminals[tag][part]))
+                for part in ("coil", "set", "reset", "NO", "NC") if part in terminals.get(tag, {})) or "-",
             "available": available,
             "status": status,
         })
@@ -403,7 +416,7 @@ def xref_rows(sch: Schematic, coil_kinds: set[str]) -> list[dict[str, str]]:
 
 
 def render_xref(rows: list[dict[str, str]]) -> str:
-    heads = {"coil": "COIL", "kind": "KIND", "rung": "COIL RUNG", "no": "NO USED (RUNGS)", "nc": "NC USED (RUNGS)", "available": "AVAILABLE", "status": ""}
+    heads = {"coil": "COIL", "kind": "KIND", "rung": "COIL RUNG", "no": "NO USED (RUNGS)", "nc": "NC USED (RUNGS)", "terminals": "TERMINALS", "available": "AVAILABLE", "status": ""}
     if not rows:
         return "no relay, timer, contactor or starter in this file\n"
     keys = list(heads)
@@ -420,7 +433,7 @@ def _run_xref(args: argparse.Namespace) -> int:
     if refused is not None:
         return refused
     coil_kinds = {k.name for k in host.kinds.kinds.values() if k.coil}
-    sys.stdout.write(render_xref(xref_rows(loaded.schematic, coil_kinds)))
+    sys.stdout.write(render_xref(xref_rows(loaded.schematic, coil_kinds, host.kinds)))
     return EXIT_OK
 
 

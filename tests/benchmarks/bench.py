@@ -104,6 +104,12 @@ def main() -> None:
     t_ls, t_lb = in_process(lat_small, repeats + 2), in_process(lat_big, repeats)
     rows.append(("linear: lattice 2,000 / 200 sections (start-up subtracted)", f"{t_lb:.3f} s / {t_ls:.3f} s", f"{t_lb / t_ls:.2f}", "<= 12"))
 
+    # Panel documents: exporting the wire list and the terminal plan against a cold check of the same file.
+    t_wires = best(ctllint("export", "wires", "-o", os.devnull, big), repeats, env=nocache)
+    t_terms = best(ctllint("export", "terminals", "-o", os.devnull, big), repeats, env=nocache)
+    rows.append(("export: wire list / check, 1,000 circuits", f"{t_wires:.3f} s / {t_big:.3f} s", f"{t_wires / t_big:.2f}", "<= 1.00"))
+    rows.append(("export: terminal plan / check, 1,000 circuits", f"{t_terms:.3f} s / {t_big:.3f} s", f"{t_terms / t_big:.2f}", "<= 1.00"))
+
     # Cache: a second run over the unchanged file.
     shutil.rmtree(os.path.join(tmp, "cache"), ignore_errors=True)
     t_cold = best(ctllint("check", "-j", "1", big), 1, env=env)
