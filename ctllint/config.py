@@ -18,6 +18,7 @@ Keys::
              max_elements: 1000000, plugin_seconds: 60}
     cache: true            # or false, or a folder
     jobs: 2
+    safety-note: true      # false leaves the safety note out of check's output
 """
 from __future__ import annotations
 
@@ -31,7 +32,7 @@ from .model import Severity
 from .yamlsafe import Limits, YamlProblem, check_tree, compose, pos, scalar_value
 
 CONFIG_NAMES = (".ctllint.yaml", ".ctllint.yml")
-KEYS = ("select", "ignore", "fail-on", "rules", "plugins", "exclude", "limits", "cache", "jobs")
+KEYS = ("select", "ignore", "fail-on", "rules", "plugins", "exclude", "limits", "cache", "jobs", "safety-note")
 
 
 class ConfigError(Exception):
@@ -55,6 +56,7 @@ class Config:
     limits: Limits = field(default_factory=Limits)
     cache: bool | str = True
     jobs: int | None = None
+    safety_note: bool = True
     lines: dict[str, int] = field(default_factory=dict)  # "rules.NAME.KEY" -> line, for messages
 
     def line_of(self, key: str) -> int:
@@ -227,6 +229,10 @@ def _build(path: str, data: Any, lines: dict[str, int]) -> Config:
         if isinstance(data["jobs"], bool) or not isinstance(data["jobs"], int) or data["jobs"] < 1:
             fail("jobs", "'jobs' must be a whole number of at least 1")
         cfg.jobs = data["jobs"]
+    if "safety-note" in data:
+        if not isinstance(data["safety-note"], bool):
+            fail("safety-note", "'safety-note' must be true or false")
+        cfg.safety_note = data["safety-note"]
     return cfg
 
 
