@@ -264,7 +264,9 @@ def _configure_rules(p: argparse.ArgumentParser) -> None:
 
 
 def rules_table(host: PluginHost, fmt: str = "text") -> str:
-    rows = [(r.name, r.plugin, str(r.severity), r.summary) for r in host.rules.values()]
+    from .core_rules import all_rules
+
+    rows = [(r.name, r.plugin, str(r.severity), r.summary) for r in all_rules(host.rules).values()]
     if fmt == "json":
         import json
 
@@ -296,13 +298,18 @@ def _configure_explain(p: argparse.ArgumentParser) -> None:
 
 
 def explain_text(rule: Any) -> str:
-    parts = [f"{rule.name}  ({rule.plugin} plugin, default severity {rule.severity})", "", rule.summary, ""]
-    parts += [textwrap.fill(para, 78) for para in textwrap.dedent(rule.doc).strip().split("\n\n")]
+    origin = "core rule" if rule.plugin == "core" else f"{rule.plugin} plugin"
+    parts = [f"{rule.name}  ({origin}, default severity {rule.severity})", "", rule.summary, ""]
+    paragraphs = textwrap.dedent(rule.doc).strip().split("\n\n")
+    parts.append("\n\n".join(textwrap.fill(para, 78, break_on_hyphens=False) for para in paragraphs))
     parts += ["", f"Source: {rule.source}"]
     for label, ex in (("Failing example", rule.failing), ("Passing example", rule.passing)):
         if ex is not None:
             parts += ["", f"{label}: {ex.title}", textwrap.indent(textwrap.dedent(ex.yaml).strip("\n"), "    ")]
     parts += ["", "Options:"]
+    if rule.plugin == "core":
+        parts.append("    none: a core rule cannot be disabled, re-graded, configured or suppressed")
+        return "\n".join(parts) + "\n"
     if rule.options:
         for name, opt in rule.options.items():
             parts.append(f"    {name} (default {opt.default!r}): {opt.doc}")
@@ -313,12 +320,15 @@ def explain_text(rule: Any) -> str:
 
 
 def _run_explain(args: argparse.Namespace) -> int:
+    from .core_rules import all_rules
+
     _, host = setup(args)
-    rule = host.rules.get(args.rule)
+    known = all_rules(host.rules)
+    rule = known.get(args.rule)
     if rule is None:
         import difflib
 
-        hint = difflib.get_close_matches(args.rule, list(host.rules), n=1)
+        hint = difflib.get_close_matches(args.rule, list(known), n=1)
         raise UsageError(f"ctllint: no rule named '{args.rule}'" + (f" (did you mean '{hint[0]}'?)" if hint else "; see 'ctllint rules'"))
     sys.stdout.write(explain_text(rule))
     return EXIT_OK

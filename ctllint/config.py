@@ -28,6 +28,7 @@ import re
 from dataclasses import dataclass, field, fields
 from typing import Any
 
+from .core_rules import CORE_RULE_NAMES
 from .model import Severity
 from .yamlsafe import Limits, YamlProblem, check_tree, compose, pos, scalar_value
 
@@ -252,7 +253,7 @@ def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ig
                 out.add(item)
             elif item in plugins:
                 out.update(n for n, r in rules.items() if r.plugin == item)
-            elif item in ("format", "plugin-error", "suppression"):
+            elif item in CORE_RULE_NAMES:
                 continue
             else:
                 hint = _hint(item, list(rules) + sorted(plugins))
@@ -274,6 +275,8 @@ def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ig
     options = {name: {k: o.default for k, o in rule.options.items()} for name, rule in rules.items()}
     for name, settings in cfg.rules.items():
         where = f"rules.{name}"
+        if name in CORE_RULE_NAMES:
+            raise ConfigError(cfg.path or "?", cfg.line_of(where), f"'{name}' is a core rule: it cannot be disabled, re-graded or configured")
         if name not in rules:
             hint = _hint(name, list(rules))
             raise ConfigError(cfg.path or "?", cfg.line_of(where), f"unknown rule '{name}' under rules" + (f" (did you mean '{hint}'?)" if hint else ""))

@@ -13,6 +13,7 @@ from typing import Iterable
 
 from . import __version__
 from .api import OutputFormat, Rule
+from .core_rules import CORE_RULES
 from .hookspecs import hookimpl
 from .model import Diagnostic, Severity
 
@@ -65,11 +66,6 @@ def render_json(diagnostics: list[Diagnostic], files: list[str], rules: dict[str
 
 
 _SARIF_LEVEL = {Severity.ERROR: "error", Severity.WARNING: "warning", Severity.INFO: "note"}
-_CORE_RULE_DOCS = {
-    "format": ("The file breaks the schematic format (FORMAT.md).", Severity.ERROR),
-    "plugin-error": ("A rule plugin failed to import, raised, or ran past its time limit.", Severity.ERROR),
-    "suppression": ("An inline suppression is malformed, lacks a reason, or suppresses nothing.", Severity.WARNING),
-}
 
 
 def _uri(path: str) -> str:
@@ -80,15 +76,8 @@ def _uri(path: str) -> str:
 def render_sarif(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule], note: str | None = SAFETY_NOTE) -> str:
     descriptors = []
     index: dict[str, int] = {}
-    for name, (summary, sev) in sorted(_CORE_RULE_DOCS.items()):
-        index[name] = len(descriptors)
-        descriptors.append({
-            "id": name,
-            "shortDescription": {"text": summary},
-            "defaultConfiguration": {"level": _SARIF_LEVEL[sev]},
-            "properties": {"plugin": "core"},
-        })
-    for name in sorted(rules):
+    rules = {**CORE_RULES, **dict(sorted(rules.items()))}  # the core rules first, as they always were
+    for name in rules:
         rule = rules[name]
         index[name] = len(descriptors)
         descriptors.append({
