@@ -42,6 +42,7 @@ from dataclasses import dataclass, field
 from typing import Iterable
 from xml.sax.saxutils import escape, quoteattr
 
+from .kinds import INSTANT_PARTS, contact_sense
 from .model import Diagnostic, Element, Location, Rung, Schematic, Severity, Supply
 
 # -- fonts and measures -----------------------------------------------------------
@@ -291,10 +292,11 @@ def coil_uses(sch: Schematic) -> dict[str, CoilUse]:
     numbers = {r.index: r.number for r in sch.rungs}
     uses: dict[str, CoilUse] = {}
     for el in sch.elements:
-        if el.part not in ("NO", "NC"):
+        sense = contact_sense(el.part)
+        if sense is None:
             continue
         uses.setdefault(el.tag, CoilUse(el.tag, [], []))
-        (uses[el.tag].no if el.part == "NO" else uses[el.tag].nc).append(numbers[el.rung])
+        (uses[el.tag].no if sense == "NO" else uses[el.tag].nc).append(numbers[el.rung])
     for use in uses.values():
         use.no.sort()
         use.nc.sort()
@@ -620,9 +622,9 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
         svg.line(cx + 5, y, cx + h, y, "sym")
         svg.line(cx - 5, y - 10, cx - 5, y + 10, "sym")
         svg.line(cx + 5, y - 10, cx + 5, y + 10, "sym")
-        if part == "NC":
+        if contact_sense(part) == "NC":
             svg.line(cx - 11, y + 10, cx + 11, y - 10, "sym")
-        if kind == "timer":  # timed contact: a small arc over the bars
+        if kind == "timer" and part not in INSTANT_PARTS:  # timed contact: a small arc over the bars
             svg.add(f'<path class="sym" d="M{_n(cx - 7)} {_n(y - 13)} Q{_n(cx)} {_n(y - 7)} {_n(cx + 7)} {_n(y - 13)}"/>')
     elif role == "load":
         svg.line(cx - h, y, cx - 11, y, "sym")

@@ -27,6 +27,21 @@ CONTACTS = "contacts"        # ContactCount
 RATING = "rating"            # ContactRating
 POWER_RATING = "power_rating"  # PowerRating
 POSITIONS = "positions"      # a list of position names
+SPEEDS = "speeds"            # a multi-speed motor's speeds: name -> {power, fla}
+
+# Contact parts: NO/NC, and a timer's instantaneous contacts (FORMAT.md
+# "Additions"), which follow its coil at once while NO/NC are timed.
+INSTANT_PARTS = ("instant-NO", "instant-NC")
+CONTACT_PARTS = ("NO", "NC", *INSTANT_PARTS)
+
+
+def contact_sense(part: str | None) -> str | None:
+    """"NO" or "NC" for a contact part (``instant-NO`` is an NO contact), else None."""
+    if part in ("NO", "instant-NO"):
+        return "NO"
+    if part in ("NC", "instant-NC"):
+        return "NC"
+    return None
 
 
 @dataclass(frozen=True)
@@ -72,7 +87,7 @@ class DeviceKind:
             return self.bare
         if part == "coil" and self.coil:
             return "load"
-        if part in ("NO", "NC") and part in self.parts:
+        if part in CONTACT_PARTS and part in self.parts:
             return "contact"
         return None
 
@@ -99,6 +114,9 @@ _CONTACTOR_FIELDS = {
     "overload": FieldSpec(TAG, tag_kinds=("overload",), doc="its overload relay"),
     "interlock": FieldSpec(TAG, tag_kinds=("contactor", "starter"), doc="contactor it must never be on with"),
     "vacuum": FieldSpec(BOOL, default=False, doc="vacuum interrupter"),
+    "role": FieldSpec(TEXT, choices=("line", "delta", "star"), doc="its place in a wye-delta starter"),
+    "speed": FieldSpec(TEXT, doc="the speed of a multi-speed motor it runs (a name under the motor's speeds)"),
+    "estop_exempt": FieldSpec(TEXT, doc="why the emergency stop does not drop it (required text)"),
 }
 
 _SWITCH_FIELDS = {**_CONTACT_FIELDS, "setpoint": FieldSpec(TEXT, doc="free text, e.g. opens at 300 F")}
@@ -140,7 +158,7 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
             "preset": FieldSpec(TIME, doc="time delay"),
         },
         required=("delay", "preset"),
-        parts=("coil", "NO", "NC"),
+        parts=("coil", "NO", "NC", *INSTANT_PARTS),
         coil=True,
         inductive=True,
     ),
@@ -149,8 +167,12 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
     DeviceKind(
         "overload",
         {
-            "setting": FieldSpec(CURRENT, doc="trip current setting"),
+            "setting": FieldSpec(CURRENT, doc="current setting (the dial)"),
             "technology": FieldSpec(TEXT, choices=("thermal", "electronic")),
+            "trip_multiple": FieldSpec(NUMBER, doc="ultimate trip current / setting (default 1.20, IEC 60947-4-1)"),
+            "starting_allowance": FieldSpec(BOOL, doc="set above NEC 430.32(A)(1) because the motor would not start (430.32(C))"),
+            "in": FieldSpec(TEXT, choices=("line", "phase"), doc="sits in the line (default) or in a wye-delta motor's phase leads"),
+            "reset": FieldSpec(TEXT, choices=("manual", "automatic"), doc="its reset mode"),
             **_CONTACT_FIELDS,
         },
         parts=("NO", "NC"),
@@ -195,9 +217,20 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
             "rating": FieldSpec(APPARENT),
             "inrush_rating": FieldSpec(APPARENT),
             "fuses": FieldSpec(TAGS, tag_kinds=("fuse", "breaker")),
+            "class2": FieldSpec(BOOL, doc="Class 2 or Class 1 power-limited (NEC 430.72(C)(1))"),
+            "integral": FieldSpec(BOOL, doc="integral to the controller, inside its enclosure (NEC 430.72(C)(3))"),
         },
     ),
-    DeviceKind("power-supply", {"input": FieldSpec(VOLTAGE), "output": FieldSpec(VOLTAGE), "rating": FieldSpec(CURRENT)}),
+    DeviceKind(
+        "power-supply",
+        {
+            "input": FieldSpec(VOLTAGE),
+            "output": FieldSpec(VOLTAGE),
+            "rating": FieldSpec(CURRENT, doc="rated output current"),
+            "efficiency": FieldSpec(NUMBER, doc="output / input power (default 0.85) when its input is counted"),
+            "source": FieldSpec(TAG, tag_kinds=("transformer",), doc="the transformer that feeds its input"),
+        },
+    ),
     DeviceKind(
         "motor",
         {
@@ -207,6 +240,9 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
             "fla": FieldSpec(CURRENT),
             "service_factor": FieldSpec(NUMBER),
             "temp_rise": FieldSpec(TEMPERATURE),
+            "protection": FieldSpec(TEXT, choices=("integral",), doc="thermally protected motor (NEC 430.32(A)(2))"),
+            "connection": FieldSpec(TEXT, choices=("wye-delta",), doc="started wye-delta; its contactors give their role"),
+            "speeds": FieldSpec(SPEEDS, doc="a multi-speed motor: each speed its own power and nameplate fla"),
         },
         required=("phases",),
     ),

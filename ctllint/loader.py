@@ -26,6 +26,7 @@ from .model import (
     Diagnostic,
     Element,
     Location,
+    MotorSpeed,
     Path,
     PowerRating,
     Quantity,
@@ -474,6 +475,11 @@ class _Loader:
             if req not in fields:
                 self.error(knode, f"{kind_name} {tag} needs '{req}'")
                 ok = False
+        if "speeds" in dev.fields:
+            for single in ("power", "fla"):
+                if single in dev.fields:
+                    self.error(fields[single][0], f"{kind_name} {tag} gives 'speeds': its {single} goes under each speed, not on the motor itself")
+                    ok = False
         if kind.positions and "positions" in dev.fields:
             pass
         for name, spec in kind.fields.items():
@@ -495,6 +501,8 @@ class _Loader:
             value = self.scalar(node, what)
             if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value) or value <= 0:
                 self.fail(node, f"{what} must be a positive number, not '{node.value}'")
+            if what.startswith("efficiency ") and value > 1:
+                self.fail(node, f"{what} is output / input power, at most 1 (0.85 is typical), not '{node.value}'")
             return float(value)
         if t == K.COUNT:
             value = self.scalar(node, what)
@@ -512,6 +520,8 @@ class _Loader:
                 self.fail(node, f"{what} must be text, not {_describe_value(value)}")
             if spec.choices and value not in spec.choices:
                 self.fail(node, f"{what} '{value}' is not one of: {', '.join(spec.choices)}")
+            if not value.strip() and what.startswith("estop_exempt "):
+                self.fail(node, f"{what} must give the reason the emergency stop leaves it running (e.g. \"freeze protection, no motion hazard\")")
             return value
         if t == K.TAG:
             return self.tag(node, what)
@@ -532,19 +542,40 @@ class _Loader:
                 self.fail(node, f"{what} needs at least two positions")
             return names
         if t == K.CONTACTS:
-            return self.read_contacts(node, what)
+            return self.read_contacts(node, what, kind)
+        if t == K.SPEEDS:
+            return self.read_speeds(node, what)
         if t == K.RATING:
             return self.shared(self.read_rating(node, what))
         if t == K.POWER_RATING:
             return self.shared(self.read_power_rating(node, what))
         self.fail(node, f"{what}: field type '{t}' is not known to this ctllint")
 
-    def read_contacts(self, node: Node, what: str) -> ContactCount:
+    def read_speeds(self, node: Node, what: str) -> tuple[MotorSpeed, ...]:
+        """``speeds: {low: {power: 10 hp, fla: 14 A}, high: {...}}`` (FORMAT.md "Additions")."""
+        speeds = []
+        for name, kn, vn in self.mapping(node, what):
+            if not name or "." in name or any(c.isspace() for c in name):
+                self.fail(kn, f"speed name '{name}' must be one word without dots")
+            fields = {}
+            for key, fkn, fvn in self.mapping(vn, f"speed {name}"):
+                if key not in ("power", "fla"):
+                    self.unknown_key(fkn, key, f"speed {name}", ("power", "fla"))
+                    raise _Stop
+                fields[key] = self.quantity(fvn, K.POWER if key == "power" else K.CURRENT, f"{key} of speed {name}")
+            speeds.append(MotorSpeed(name, fields.get("power"), fields.get("fla")))
+        if len(speeds) < 2:
+            self.fail(node, f"{what} needs at least two speeds (a one-speed motor gives power and fla directly)")
+        return tuple(speeds)
+
+    def read_contacts(self, node: Node, what: str, kind: DeviceKind | None = None) -> ContactCount:
         entries = self.mapping(node, what)
         keys = {k: vn for k, _, vn in entries}
+        instant = tuple(p for p in K.INSTANT_PARTS if kind is not None and p in kind.parts)
+        allowed = ("NO", "NC", *instant, "poles", "throw")
         for key, kn, _ in entries:
-            if key not in ("NO", "NC", "poles", "throw"):
-                self.unknown_key(kn, key, what, ("NO", "NC", "poles", "throw"))
+            if key not in allowed:
+                self.unknown_key(kn, key, what, allowed)
                 raise _Stop
         def count(vn: Node, name: str) -> int:
             v = self.scalar(vn, name)
@@ -559,7 +590,12 @@ class _Loader:
             poles = count(keys["poles"], "poles")
             throw = self.text(keys["throw"], "throw", ("single", "double")) if "throw" in keys else "single"
             return ContactCount(no=0 if throw == "double" else poles, nc=0, changeover=poles if throw == "double" else 0)
-        return ContactCount(no=count(keys["NO"], "NO") if "NO" in keys else 0, nc=count(keys["NC"], "NC") if "NC" in keys else 0)
+        return ContactCount(
+            no=count(keys["NO"], "NO") if "NO" in keys else 0,
+            nc=count(keys["NC"], "NC") if "NC" in keys else 0,
+            instant_no=count(keys["instant-NO"], "instant-NO") if "instant-NO" in keys else 0,
+            instant_nc=count(keys["instant-NC"], "instant-NC") if "instant-NC" in keys else 0,
+        )
 
     def read_category(self, node: Node, what: str, power: bool = False) -> CategoryRating:
         entries = self.mapping(node, what)
@@ -580,10 +616,23 @@ class _Loader:
 
     def read_rating(self, node: Node, what: str) -> ContactRating:
         if isinstance(node, SequenceNode):
-            cats = tuple(self.read_category(n, what) for n in node.value)
-            if not cats:
+            if not node.value:
                 self.fail(node, f"{what} is an empty list")
-            return ContactRating("category", categories=cats, text=", ".join(f"{c.category} {c.current:g} A {c.voltage:g} V" for c in cats))
+            cats, designations, texts = [], [], []
+            for n in node.value:
+                if isinstance(n, ScalarNode):  # a NEMA letter beside category entries: [A600, Q300]
+                    d = self.designation(n, what)
+                    if d in designations:
+                        self.fail(n, f"{what}: {d} is listed twice")
+                    designations.append(d)
+                    texts.append(d)
+                else:
+                    c = self.read_category(n, what)
+                    cats.append(c)
+                    texts.append(f"{c.category} {c.current:g} A {c.voltage:g} V")
+            if not designations:
+                return ContactRating("category", categories=tuple(cats), text=", ".join(texts))
+            return ContactRating("list", designation=designations[0], categories=tuple(cats), text=", ".join(texts), designations=tuple(designations))
         value = self.scalar(node, what)
         if isinstance(value, str) and value.strip() in PILOT_DUTY_VALID:
             return ContactRating("pilot-duty", designation=value.strip(), text=value.strip())
@@ -594,6 +643,14 @@ class _Loader:
         except QuantityError as exc:
             self.fail(node, f"{what}: expected a pilot-duty designation (A600 ... R150), a list of category ratings, or a current: {exc}")
         return ContactRating("thermal", current=q.value, text=q.text)
+
+    def designation(self, node: Node, what: str) -> str:
+        """One NEMA ICS 5 pilot-duty designation in a rating list."""
+        value = self.scalar(node, what)
+        text = value.strip() if isinstance(value, str) else ""
+        if text not in PILOT_DUTY_VALID:
+            self.fail(node, f"{what}: '{node.value}' in a rating list must be a pilot-duty designation (A600 ... R150) or a category entry {{category, current, voltage}}")
+        return text
 
     def read_power_rating(self, node: Node, what: str) -> PowerRating:
         if isinstance(node, SequenceNode):
@@ -938,6 +995,13 @@ class _Loader:
                     other = sch.devices.get(t)
                     if other is not None and other.kind not in spec.tag_kinds:
                         self.error(dev.at(name), f"{name} of {dev.tag} names {t}, {_article(other.kind)}; it must be {' or '.join(_article(k) for k in spec.tag_kinds)}")
+            speed = dev.get("speed")
+            motor = sch.devices.get(dev.get("feeds") or "") if speed is not None else None
+            if motor is not None and motor.kind == "motor":
+                names = [s.name for s in motor.get("speeds") or ()]
+                if speed not in names:
+                    have = f"its speeds are {', '.join(names)}" if names else "it gives no speeds"
+                    self.error(dev.at("speed"), f"speed of {dev.tag} names '{speed}', not a speed of motor {motor.tag} ({have})")
         for sup in sch.supplies.values():
             if sup.source and sup.source in sch.devices:
                 other = sch.devices[sup.source]

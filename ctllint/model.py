@@ -74,10 +74,13 @@ class CategoryRating:
 
 @dataclass(frozen=True, slots=True)
 class ContactRating:
-    """A contact's rating, one of three forms (FORMAT.md "Ratings").
+    """A contact's rating (FORMAT.md "Ratings" and "Additions").
 
-    ``form`` is "pilot-duty" (``designation`` set), "category" (``categories``
-    set) or "thermal" (``current`` set).
+    ``form`` is "pilot-duty" (one ``designation``), "category" (``categories``
+    only), "thermal" (``current`` set) or "list" (a list mixing NEMA
+    designations and category entries, e.g. ``[A600, Q300]``). Every
+    designation of the rating is in ``designations``; each designation and
+    category covers its own kind of supply (AC or DC).
     """
 
     form: str
@@ -85,6 +88,22 @@ class ContactRating:
     categories: tuple[CategoryRating, ...] = ()
     current: float | None = None
     text: str = ""
+    designations: tuple[str, ...] = ()
+
+    def all_designations(self) -> tuple[str, ...]:
+        """The NEMA designations of the rating, a single one included."""
+        if self.designations:
+            return self.designations
+        return (self.designation,) if self.designation else ()
+
+
+@dataclass(frozen=True, slots=True)
+class MotorSpeed:
+    """One speed of a multi-speed motor: its power (W) and nameplate current (A), either may be absent."""
+
+    name: str
+    power: "Quantity | None" = None
+    fla: "Quantity | None" = None
 
 
 @dataclass(frozen=True, slots=True)
@@ -102,6 +121,8 @@ class ContactCount:
     no: int
     nc: int
     changeover: int = 0  # double-throw poles: each offers one NO and one NC (FORMAT.md)
+    instant_no: int = 0  # a timer's instantaneous contacts (FORMAT.md "Additions")
+    instant_nc: int = 0
 
     def available(self) -> tuple[int, int]:
         """(NO, NC) uses this device provides."""

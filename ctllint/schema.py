@@ -69,15 +69,25 @@ def _field(spec: K.FieldSpec) -> dict[str, Any]:
     elif t == K.CONTACTS:
         count = {"type": "integer", "minimum": 0}
         out = {"oneOf": [
-            {"type": "object", "additionalProperties": False, "properties": {"NO": count, "NC": count}},
+            {"type": "object", "additionalProperties": False, "properties": {"NO": count, "NC": count, **{p: count for p in K.INSTANT_PARTS}}},
             {"type": "object", "additionalProperties": False, "required": ["poles"], "properties": {"poles": count, "throw": {"enum": ["single", "double"]}}},
         ]}
     elif t == K.RATING:
         out = {"oneOf": [
             {"type": "string", "enum": sorted(PILOT_DUTY_VALID)},
             _quantity(K.CURRENT),
-            {"type": "array", "minItems": 1, "items": _category()},
+            {"type": "array", "minItems": 1, "items": {"anyOf": [{"type": "string", "enum": sorted(PILOT_DUTY_VALID)}, _category()]}},
         ]}
+    elif t == K.SPEEDS:
+        out = {
+            "type": "object",
+            "minProperties": 2,
+            "additionalProperties": {
+                "type": "object",
+                "additionalProperties": False,
+                "properties": {"power": _quantity(K.POWER), "fla": _quantity(K.CURRENT)},
+            },
+        }
     elif t == K.POWER_RATING:
         out = {"oneOf": [
             {"type": "array", "minItems": 1, "items": _category()},

@@ -53,6 +53,7 @@ from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
 from .circuit import _gc_paused, path_text
+from .kinds import INSTANT_PARTS, contact_sense
 from .model import Element, Location, Scenario, Step
 from .wiresets import WireSets
 
@@ -226,12 +227,15 @@ class Simulator:
         if kind == "overload":
             active = self.tripped.get(tag, False)
         elif tag in self._timers:
-            active = self._timers[tag].out
+            timer = self._timers[tag]
+            # an instantaneous contact follows the coil at once (FORMAT.md "Additions")
+            active = timer.coil if part in INSTANT_PARTS else timer.out
         elif tag in self.moved:
             active = self.moved[tag]
         else:
             active = self.actuated.get(tag, False)
-        return active if part == "NO" else not active if part == "NC" else False
+        sense = contact_sense(part)
+        return active if sense == "NO" else not active if sense == "NC" else False
 
     def _union(self) -> tuple[dict[str, str], Any]:
         """Wires joined through closed non-load elements in the present state."""

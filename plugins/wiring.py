@@ -199,7 +199,7 @@ def check_unknown_part(ctx: CheckContext) -> Iterator[Finding]:
 
 
 def _provides(count) -> str:
-    given = [f"{n} {what}" for n, what in ((count.no, "NO"), (count.nc, "NC")) if n]
+    given = [f"{n} {what}" for n, what in ((count.no, "NO"), (count.nc, "NC"), (count.instant_no, "instant-NO"), (count.instant_nc, "instant-NC")) if n]
     if count.changeover:
         given.append(f"{count.changeover} changeover (each one NO and one NC)")
     return " and ".join(given) or "no contacts"
@@ -225,6 +225,7 @@ def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
     """
     sch = ctx.schematic
     used: dict[str, list[int]] = {}
+    instant_used: dict[tuple[str, str], int] = {}
     for el in sch.elements:
         if el.role != K.CONTACT:
             continue
@@ -243,6 +244,20 @@ def check_contact_count(ctx: CheckContext) -> Iterator[Finding]:
                     f"{el.text} in {_rung(sch, el)} is position contact number {tally[2]} drawn for selector {el.tag}, "
                     f"which provides {_provides(count)} (line {dev.at('contacts').line}), {blocks} contact "
                     f"block{'s' if blocks != 1 else ''} in all; add a contact block, correct `contacts`, or use a relay",
+                    _subject(sch, el),
+                )
+            continue
+        if el.part in K.INSTANT_PARTS:
+            # a timer's instantaneous contacts are counted apart from its timed NO/NC
+            key = (el.tag, el.part)
+            instant_used[key] = instant_used.get(key, 0) + 1
+            provided = count.instant_no if el.part == "instant-NO" else count.instant_nc
+            if instant_used[key] > provided:
+                yield Finding(
+                    el.loc,
+                    f"{el.text} in {_rung(sch, el)} is {el.part} contact number {instant_used[key]} drawn for {el.tag}, "
+                    f"which provides {provided} {el.part} (line {dev.at('contacts').line}); "
+                    "add an instantaneous contact block, correct `contacts`, or use a relay",
                     _subject(sch, el),
                 )
             continue
