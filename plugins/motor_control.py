@@ -59,10 +59,17 @@ Choices where the catalogue leaves room:
   whose coil is governed (a master control relay, or a chain of them). The
   momentary, NO and governing problems of one device are given in one
   finding at its tag.
-- ``switch-fan-out`` counts the inductive loads a contact serves directly
-  (a relay coil it drives counts once, whatever that relay switches). The
-  two coils of an interlock pair count as one only where each has an NC
-  contact of the other on every energizing path.
+- ``switch-fan-out`` counts the power-inductive branches a contact makes:
+  coils of contactors and starters (those that feed the same motor or
+  heater are one branch, one starter assembly such as a wye-delta), solenoids
+  and horns; relay and timer coils are not counted, being the interposing
+  devices the rule asks for. Every NO contact (and selector position) makes,
+  and so does an NC contact of a maintained or process switch; the NC
+  contact of a momentary pushbutton (a stop) only breaks sealed current and
+  is not counted. Branches are grouped by the `feeds` field as written: a
+  wye-delta's contactors that do not name their motor count apart. The two
+  coils of an interlock pair count as one only where each has an NC contact
+  of the other on every energizing path.
 """
 from __future__ import annotations
 
@@ -384,38 +391,80 @@ def _interlocked(ctx: CheckContext, coil: Element, other: str) -> bool:
     return bool(nc) and circuit.has_energizing_path(coil) and not circuit.has_energizing_path(coil, without=nc)
 
 
+INTERPOSING_KINDS = ("relay", "timer")  # their coils are what switch-fan-out asks for, not counted
+
+
+def _makes(dev, el: Element) -> bool:
+    """Whether closing contact ``el`` of mechanical switch ``dev`` can energize the loads it serves.
+
+    Every NO contact (and selector position) makes; an NC contact of a
+    maintained or process switch makes when the switch returns; the NC
+    contact of a momentary pushbutton (a stop) only breaks the sealed
+    current of what it stops, which contact-rating checks.
+    """
+    return not (el.part == "NC" and _is_momentary_pushbutton(dev))
+
+
+def _power_branches(ctx: CheckContext, loads: list[Element], pairs: list[tuple[str, str]]) -> list[list[Element]]:
+    """The power-inductive branches among ``loads``, each a list of its loads, in file order.
+
+    Counted: coils of contactors and starters, solenoids, horns (any
+    inductive load but a relay's or timer's coil). Contactors and starters
+    that feed the same motor or heater are one branch (one starter assembly,
+    such as a wye-delta or a two-speed starter); so are the two coils of an
+    interlock pair where each has the other's NC contact in series.
+    """
+    group_of: dict[str, str] = {}  # device tag -> its branch key
+    branches: dict[str, list[Element]] = {}
+    for load in loads:
+        dev = _device(ctx, load.tag)
+        if not load.inductive or (dev is not None and load.part == "coil" and dev.kind in INTERPOSING_KINDS):
+            continue
+        key = load.tag
+        if dev is not None and dev.kind in CONTACTOR_KINDS and dev.get("feeds"):
+            key = "feeds:" + dev.get("feeds")
+        group_of.setdefault(load.tag, key)
+        branches.setdefault(key, []).append(load)
+    for a, b in pairs:
+        ka, kb = group_of.get(a), group_of.get(b)
+        if ka is None or kb is None or ka == kb or ka not in branches or kb not in branches:
+            continue
+        ca = next(x for x in branches[ka] if x.tag == a)
+        cb = next(x for x in branches[kb] if x.tag == b)
+        if _interlocked(ctx, ca, b) and _interlocked(ctx, cb, a):
+            branches[ka].extend(branches.pop(kb))
+            for tag, key in group_of.items():
+                if key == kb:
+                    group_of[tag] = ka
+    return list(branches.values())
+
+
 def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
     circuit = ctx.circuit
     limit = ctx.options.get("max_inductive", 1)
-    pairs = _interlock_pairs(ctx)
+    pairs: list[tuple[str, str]] | None = None
     for el in ctx.schematic.elements:
         dev = _device(ctx, el.tag)
-        if el.role != "contact" or not _is_mechanical(dev):
+        if el.role != "contact" or not _is_mechanical(dev) or not _makes(dev, el):
             continue
         loads = [x for x in circuit.served_loads(el) if x.inductive]
         if len(loads) <= limit:
             continue
-        count = len(loads)
-        merged: set[int] = set()
-        for a, b in pairs:
-            ca = [x for x in loads if x.tag == a and x.index not in merged]
-            cb = [x for x in loads if x.tag == b and x.index not in merged]
-            if ca and cb and _interlocked(ctx, ca[0], b) and _interlocked(ctx, cb[0], a):
-                merged.update((ca[0].index, cb[0].index))
-                count -= 1
-        if count <= limit:
+        if pairs is None:
+            pairs = _interlock_pairs(ctx)
+        branches = _power_branches(ctx, loads, pairs)
+        if len(branches) <= limit:
             continue
-        supply = circuit.supply_of(loads[0])
+        supply = circuit.supply_of(branches[0][0])
         on = f" on supply {supply.name}" if supply is not None else ""
+        shown = "; ".join(_names(b) for b in branches)
         yield Finding(
             el.loc,
-            f"contact {el.text} serves {len(loads)} inductive loads ({_names(loads)}){on}"
-            + (f", {count} counting each interlocked pair that is never on together as one" if count != len(loads) else "")
-            + f"; a mechanical switch should "
-            f"carry at most {limit}: it makes their summed inrush current, so drive one interposing relay instead",
+            f"contact {el.text} makes {len(branches)} power-inductive branches at once ({shown}){on}; "
+            f"a mechanical switch should make at most {limit}: it makes their summed inrush current, so drive "
+            f"one interposing relay instead",
             _subject(ctx, el),
         )
-
 
 
 def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
@@ -770,19 +819,26 @@ RULES = [
     Rule(
         name="switch-fan-out",
         severity=Severity.WARNING,
-        summary="a mechanical switch contact serves more inductive loads than max_inductive",
+        summary="a mechanical switch contact makes more power-inductive branches than max_inductive",
         doc=(
-            "A pushbutton, selector or process switch that switches several coils or solenoids at once makes "
-            "and breaks their summed inrush current, beyond what its small contacts are meant to carry, and "
-            "wears or welds. Drive one interposing relay instead, so the switch carries one coil current. "
-            "The two coils of an interlock pair count as one where each has the other's NC contact in "
-            "series, since they are then never on together."
+            "A pushbutton, selector or process switch that closes onto several contactor coils or solenoids "
+            "at once makes their summed inrush current, beyond what its small contacts are meant to carry, "
+            "and wears or welds. Drive one interposing relay instead, so the switch carries one coil current.\n\n"
+            "Counted are coils of contactors and starters, solenoids and horns; contactors and starters that "
+            "feed the same motor or heater are one branch (one starter assembly, such as the line, star and "
+            "delta contactors of a wye-delta starter). Relay and timer coils are not counted: they are the "
+            "interposing devices. A contact makes when its closing can energize the loads: every NO contact "
+            "and selector position, and the NC contact of a maintained or process switch (it makes when the "
+            "switch returns). The NC contact of a momentary pushbutton, a stop, only breaks the sealed current "
+            "of what it stops, which contact-rating checks, and is not counted. The two coils of an interlock "
+            "pair count as one where each has the other's NC contact in series, since they are then never on "
+            "together."
         ),
-        source="common practice (a switch feeding several inductive loads carries their summed inrush)",
+        source="common practice (a switch making several inductive loads carries their summed inrush; relays interpose)",
         check=check_switch_fan_out,
         failing=Example("float switch drives two solenoids", "rungs:\n  - paths:\n      - [L1, FS1.NO, 2, SOL1, X2]\n      - [2, SOL2, X2]\n"),
         passing=Example("float switch drives one relay", "rungs:\n  - paths:\n      - [L1, FS1.NO, 2, CR1.coil, X2]\n      - [L1, CR1.NO, 3, SOL1, X2]\n      - [3, SOL2, X2]\n"),
-        options={"max_inductive": Option(1, "how many inductive loads one mechanical switch contact may serve", int, minimum=1)},
+        options={"max_inductive": Option(1, "how many power-inductive branches one mechanical switch contact may make", int, minimum=1)},
     ),
     Rule(
         name="interlock",
