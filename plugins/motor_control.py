@@ -28,9 +28,14 @@ Choices where the catalogue leaves room:
   biconnected component once the loads are taken out) and the contact serves
   the coil. A NO contact of another coil the same start contact energizes
   counts too (the main contactor of a star-delta starter holds the star,
-  delta and timer coils started with it), unless that coil is a timer's:
-  timed contacts do not hold (an on-delay NO is still open when the button
-  is released, an off-delay NO stays closed after stop and restarts). The
+  delta and timer coils started with it). A timer's timed contacts never
+  seal, its own coil included (an on-delay NO is still open when the button
+  is released, an off-delay NO stays closed after stop and restarts); its
+  ``instant-NO`` does. A NO contact around the start that is no seal (a
+  timed contact, or a contact of a coil this button does not start) is
+  reported with what it really does: a timed contact drops out or restarts,
+  another starter's contact starts this coil whenever that one runs. The
+  advice for a timer names its ``instant-NO``, never a timed contact. The
   stop and overload contacts that must stay in series are the ones in series
   with the coil while its own NO contacts are open (the circuit as the start
   button sees it); so a seal wired around the stop as well as the start
@@ -350,9 +355,12 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
                     start.loc,
                     f"start button {start.tag} ({start.text}) energizes coil {coil.text}, but no NO contact of {coil.tag} "
                     f"is wired around it: {coil.tag} drops out as soon as the button is released; add a seal-in "
-                    f"{coil.tag}.NO in parallel with {start.text}, or set jog: true on the rung if that is intended",
+                    f"{_seal_advice(ctx, coil.tag)} in parallel with {start.text}, or set jog: true on the rung if that is intended",
                     f"{start.text}@{coil.text}",
                 )
+                continue
+            if verdict == "wrong":
+                yield Finding(start.loc, _wrong_seal_message(ctx, start, coil, bypassed), f"{start.text}@{coil.text}")
                 continue
             if bypassed:
                 yield Finding(
@@ -362,6 +370,34 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
                     f"{' or '.join(c.tag for c in bypassed)} opens; wire the seal-in across {start.text} only",
                     f"{start.text}@{coil.text}",
                 )
+
+
+def _seal_advice(ctx: CheckContext, tag: str) -> str:
+    """The contact to suggest as the seal-in of ``tag``'s coil: never a timer's timed contact."""
+    if getattr(_device(ctx, tag), "kind", None) == "timer":
+        return f"{tag}.instant-NO (an instantaneous contact; its timed contacts do not seal)"
+    return f"{tag}.NO"
+
+
+def _wrong_seal_message(ctx: CheckContext, start: Element, coil: Element, wrong: list[Element]) -> str:
+    """What the contact wired around the start button really does, and what to wire instead."""
+    m = wrong[0]
+    dev = _device(ctx, m.tag)
+    fix = f"wire {_seal_advice(ctx, coil.tag)} across {start.text} as the seal-in"
+    head = f"the contact around start button {start.text} for coil {coil.text}, {_names(wrong)}, is no seal-in: "
+    if dev.kind == "timer":
+        if dev.get("delay") == "off":
+            q = dev.get("preset")
+            preset = f"{q.number:g} {q.unit}" if q is not None else "its preset"
+            what = (f"{m.text} is a timed contact of off-delay timer {m.tag}: it stays closed for {preset} after stop "
+                    f"drops {coil.tag}, so releasing stop within that time restarts {coil.tag}")
+        else:
+            what = (f"{m.text} is a timed contact of on-delay timer {m.tag}: it is still open when the button is "
+                    f"released, so {coil.tag} drops out then")
+        return head + what + "; " + fix
+    runs = "runs" if dev.kind in CONTACTOR_KINDS else "is energized"
+    return (head + f"{m.text} belongs to {m.tag}, which this button does not start: it starts {coil.tag} whenever "
+            f"{m.tag} {runs}, and does not hold {coil.tag} when {m.tag} is off; " + fix)
 
 
 # ---------------------------------------------------------------------------
@@ -467,23 +503,44 @@ def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
         )
 
 
+def _sealing_contacts(ctx: CheckContext, tag: str) -> list[Element]:
+    """The contacts of ``tag`` that can seal: NO contacts, a timer's instantaneous NO only.
+
+    A timer's NO/NC are timed: an on-delay NO is still open when the button
+    is released, and an off-delay NO stays closed after stop is pressed and
+    restarts the coil. Its ``instant-NO`` follows the coil like a relay's.
+    """
+    if getattr(_device(ctx, tag), "kind", None) == "timer":
+        return _contacts(ctx, tag, "instant-NO")
+    return _contacts(ctx, tag, "NO")
+
+
 def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
-    """("missing" | "bypass" | "ok", contacts the seal bypasses, a path through the bypass)."""
+    """("missing" | "wrong" | "bypass" | "ok", the wrong seals or the contacts the seal bypasses, a path through the bypass)."""
     # The seal is a NO contact of the coil's own device or of another coil the
     # same start button energizes: in a star-delta starter or a starter with
-    # its timer, the main contactor's seal-in holds every coil started with it.
-    # Another device's timer does not count: its contacts are timed, so an
-    # on-delay NO has not closed when the button is released, and an
-    # off-delay NO stays closed after stop is pressed and restarts the coil.
-    started = [
-        load.tag
-        for load in circuit.served_loads(start)
-        if load.part == "coil" and load.tag != coil.tag and getattr(_device(ctx, load.tag), "kind", None) != "timer"
-    ]
-    candidates = _contacts(ctx, coil.tag, "NO") + [m for tag in dict.fromkeys(started) for m in _contacts(ctx, tag, "NO")]
-    seals = [m for m in candidates if blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)]
+    # its timer, the main contactor's seal-in holds every coil started with it
+    # (a timer's instantaneous NO too, never its timed one).
+    started = [load.tag for load in circuit.served_loads(start) if load.part == "coil" and load.tag != coil.tag]
+    candidates = [m for tag in dict.fromkeys([coil.tag, *started]) for m in _sealing_contacts(ctx, tag)]
+
+    def around_start(m: Element) -> bool:
+        return blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)
+
+    seals = [m for m in candidates if around_start(m)]
     if not seals:
-        return "missing", [], None
+        # A NO contact of a coil around the start that is no seal: a timer's
+        # timed contact, or a contact of a device this button does not start.
+        wrong = [
+            m for m in ctx.schematic.elements
+            if m.role == "contact" and m.part == "NO" and getattr(_device(ctx, m.tag), "kind", None) in COIL_KINDS
+            and m.tag not in started and around_start(m)
+        ]
+        wrong += [
+            m for tag in dict.fromkeys([coil.tag, *started]) if getattr(_device(ctx, tag), "kind", None) == "timer"
+            for m in _contacts(ctx, tag, "NO") if around_start(m) and m not in wrong
+        ]
+        return ("wrong", wrong, None) if wrong else ("missing", [], None)
     own_no = candidates
     coil_key = (coil.tag, coil.left, coil.right, start.tag, start.left, start.right)
     if coil_key not in keeps:
@@ -807,11 +864,15 @@ RULES = [
             "coil a momentary start button's NO contact serves, unless the rung sets jog: true. Coils "
             "started together by the same button (the star, delta and timer coils of a star-delta "
             "starter, a starter and its run timer) may share one seal-in: a NO contact of any coil that "
-            "button energizes counts, as long as it bypasses only the start contact; a timer's contact "
-            "does not, since timed contacts do not hold the coil (an on-delay NO is still open when the "
-            "button is released, an off-delay NO stays closed after stop and restarts the coil)."
+            "button energizes counts, as long as it bypasses only the start contact.\n\n"
+            "A timer's timed contact never seals, not even its own coil: an on-delay NO is still open when "
+            "the button is released, so the coil drops out; an off-delay NO stays closed after stop and "
+            "restarts the coil when stop is released. Only a timer's instantaneous contact (instant-NO) "
+            "seals. A contact of another coil that this button does not start is no seal either: wired "
+            "around the start button it starts this coil whenever that one runs. The message says which "
+            "of these the wrong seal does, and the advice never suggests a timer's timed contact."
         ),
-        source="common practice (three-wire control, low-voltage protection); NFPA 79 7.5",
+        source="common practice (three-wire control, low-voltage protection; timed and instantaneous timer contacts); NFPA 79 7.5",
         check=check_seal_in,
         failing=Example("no seal-in", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n"),
         passing=Example("seal-in across the start button", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [2, M1.NO, 3]\n"),
