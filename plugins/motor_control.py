@@ -56,7 +56,8 @@ Choices where the catalogue leaves room:
   chattering. The simulator is also run from rest, and a circuit that does
   not settle there is reported at the first coil that keeps switching, when
   no own-NC finding already covers it.
-- ``emergency-stop``: "its supply" is the supply of the loads its contacts
+- ``emergency-stop``: contactors and starters with a non-empty
+  ``estop_exempt`` reason are left out. "its supply" is the supply of the loads its contacts
   serve, and any supply with a contactor or starter it governs through a
   relay (a 24 VDC safety relay switching 120 VAC starters makes the 120 VAC
   starters its own). A coil is governed when every energizing path passes a
@@ -650,17 +651,26 @@ def check_emergency_stop(ctx: CheckContext) -> Iterator[Finding]:
                 supply = circuit.supply_of(coil) if coil.index in governed else None
                 if supply is not None and supply.name not in supplies and _device(ctx, coil.tag).kind in CONTACTOR_KINDS:
                     supplies.append(supply.name)
-            missed = []
+            missed: dict[str, list[Element]] = {}  # supply name -> coils it does not drop there
             for coil in _coil_loads(ctx):
                 coil_dev = _device(ctx, coil.tag)
                 supply = circuit.supply_of(coil)
-                if coil_dev.kind in CONTACTOR_KINDS and supply is not None and supply.name in supplies and coil.index not in governed and circuit.has_energizing_path(coil):
-                    missed.append(coil)
+                if coil_dev.kind not in CONTACTOR_KINDS or supply is None or supply.name not in supplies:
+                    continue
+                if coil.index in governed or not circuit.has_energizing_path(coil):
+                    continue
+                reason = coil_dev.get("estop_exempt")
+                if isinstance(reason, str) and reason.strip():
+                    continue  # left running on purpose, for the reason given (an empty one is a format error)
+                missed.setdefault(supply.name, []).append(coil)
             if missed:
+                # Each coil with its own supply: never a supply where nothing is missed.
+                where = "; ".join(f"{_names(coils)} on supply {name}" for name, coils in missed.items())
                 problems.append(
-                    f"it does not govern {_names(missed)} on supply {', '.join(supplies)} (each can be energized with "
+                    f"it does not govern {where} (each can be energized with "
                     f"{tag} pressed): put it in series with every "
-                    f"contactor and starter coil, directly or through a master control relay it drops"
+                    f"contactor and starter coil, directly or through a master control relay it drops, "
+                    f"or give a device that must stay on its reason in estop_exempt"
                 )
         if problems:
             yield Finding(dev.loc, f"emergency stop {tag}: " + "; ".join(problems), tag)
@@ -928,7 +938,11 @@ RULES = [
             "control relay whose coil it drops and whose NO contacts are in series with the others. Where it "
             "drops starters on another supply through a relay (a 24 VDC safety relay switching 120 VAC "
             "starters), that supply's contactors and starters must all be governed too. An auxiliary NO that "
-            "only signals the button is pressed (to a PLC input or a light) is not an NO use."
+            "only signals the button is pressed (to a PLC input or a light) is not an NO use.\n\n"
+            "A contactor or starter whose device gives a reason in estop_exempt (a freeze-protection heater, "
+            "panel cooling: no motion hazard, and the risk assessment keeps it on) is left out (an empty "
+            "reason is a format error). The message names each coil that is not dropped with its own supply, "
+            "never a supply on which the emergency stop drops everything it must."
         ),
         source="NFPA 79 9.2.5.4 / IEC 60204-1 10.7 (emergency stop devices), ISO 13850",
         check=check_emergency_stop,
