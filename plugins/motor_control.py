@@ -516,6 +516,17 @@ def _sealing_contacts(ctx: CheckContext, tag: str) -> list[Element]:
     return _contacts(ctx, tag, "NO")
 
 
+def _block_members(ctx: CheckContext, blocks: dict[int, int], keeps: dict) -> dict[int, list[Element]]:
+    """Block number -> its elements, built once per schematic (kept in ``keeps`` under None)."""
+    if None not in keeps:
+        members: dict[int, list[Element]] = {}
+        for el in ctx.schematic.elements:
+            if blocks.get(el.index) is not None:
+                members.setdefault(blocks[el.index], []).append(el)
+        keeps[None] = members
+    return keeps[None]
+
+
 def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
     """("missing" | "wrong" | "bypass" | "ok", the wrong seals or the contacts the seal bypasses, a path through the bypass)."""
     # The seal is a NO contact of the coil's own device or of another coil the
@@ -533,7 +544,7 @@ def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
         # A NO contact of a coil around the start that is no seal: a timer's
         # timed contact, or a contact of a device this button does not start.
         wrong = [
-            m for m in ctx.schematic.elements
+            m for m in _block_members(ctx, blocks, keeps).get(blocks.get(start.index), [])
             if m.role == "contact" and m.part == "NO" and getattr(_device(ctx, m.tag), "kind", None) in COIL_KINDS
             and m.tag not in started and around_start(m)
         ]
