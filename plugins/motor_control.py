@@ -73,9 +73,14 @@ Choices where the catalogue leaves room:
   and so does an NC contact of a maintained or process switch; the NC
   contact of a momentary pushbutton (a stop) only breaks sealed current and
   is not counted. Branches are grouped by the `feeds` field as written: a
-  wye-delta's contactors that do not name their motor count apart. The two
-  coils of an interlock pair count as one only where each has an NC contact
-  of the other on every energizing path.
+  wye-delta's contactors that do not name their motor count apart. "At
+  once": the count is the largest set of branches that can be made
+  together. Two loads are never made together when a third device's
+  contacts choose between them (every path of one passes its NC, of the
+  other its NO; or two positions of one selector: that device's state is
+  given when the switch closes), and the two coils of an interlock pair
+  count as one only where each has an NC contact of the other on every
+  energizing path (a one-sided interlock does not count).
 """
 from __future__ import annotations
 
@@ -398,7 +403,8 @@ def _wrong_seal_message(ctx: CheckContext, start: Element, coil: Element, wrong:
         return head + what + "; " + fix
     runs = "runs" if dev.kind in CONTACTOR_KINDS else "is energized"
     return (head + f"{m.text} belongs to {m.tag}, which this button does not start: it starts {coil.tag} whenever "
-            f"{m.tag} {runs}, and does not hold {coil.tag} when {m.tag} is off; " + fix)
+            f"{m.tag} {runs}, and does not hold {coil.tag} when {m.tag} is off; " + fix
+            + ", or set jog: true on the rung if the button only jogs")
 
 
 # ---------------------------------------------------------------------------
@@ -442,16 +448,14 @@ def _makes(dev, el: Element) -> bool:
     return not (el.part == "NC" and _is_momentary_pushbutton(dev))
 
 
-def _power_branches(ctx: CheckContext, loads: list[Element], pairs: list[tuple[str, str]]) -> list[list[Element]]:
+def _power_branches(ctx: CheckContext, loads: list[Element]) -> list[list[Element]]:
     """The power-inductive branches among ``loads``, each a list of its loads, in file order.
 
     Counted: coils of contactors and starters, solenoids, horns (any
     inductive load but a relay's or timer's coil). Contactors and starters
     that feed the same motor or heater are one branch (one starter assembly,
-    such as a wye-delta or a two-speed starter); so are the two coils of an
-    interlock pair where each has the other's NC contact in series.
+    such as a wye-delta or a two-speed starter).
     """
-    group_of: dict[str, str] = {}  # device tag -> its branch key
     branches: dict[str, list[Element]] = {}
     for load in loads:
         dev = _device(ctx, load.tag)
@@ -460,26 +464,79 @@ def _power_branches(ctx: CheckContext, loads: list[Element], pairs: list[tuple[s
         key = load.tag
         if dev is not None and dev.kind in CONTACTOR_KINDS and dev.get("feeds"):
             key = "feeds:" + dev.get("feeds")
-        group_of.setdefault(load.tag, key)
         branches.setdefault(key, []).append(load)
-    for a, b in pairs:
-        ka, kb = group_of.get(a), group_of.get(b)
-        if ka is None or kb is None or ka == kb or ka not in branches or kb not in branches:
-            continue
-        ca = next(x for x in branches[ka] if x.tag == a)
-        cb = next(x for x in branches[kb] if x.tag == b)
-        if _interlocked(ctx, ca, b) and _interlocked(ctx, cb, a):
-            branches[ka].extend(branches.pop(kb))
-            for tag, key in group_of.items():
-                if key == kb:
-                    group_of[tag] = ka
     return list(branches.values())
+
+
+def _required_contacts(ctx: CheckContext, load: Element, cache: dict) -> set[tuple[str, str]]:
+    """(tag, part) of the contacts every energizing path of ``load`` passes (one of them at least)."""
+    if load.index not in cache:
+        circuit = ctx.circuit
+        out: set[tuple[str, str]] = set()
+        for tag, part in dict.fromkeys((e.tag, e.part) for e in circuit.serving(load) if e.role == "contact"):
+            same = [e for e in circuit.elements_of(tag) if e.role == "contact" and e.part == part]
+            if not circuit.has_energizing_path(load, without=same):
+                out.add((tag, part))
+        cache[load.index] = out
+    return cache[load.index]
+
+
+_CHANGEOVER = ({"NO", "NC"}, {"instant-NO", "instant-NC"})
+
+
+def _never_closed_together(ctx: CheckContext, tag: str, p: str, q: str) -> bool:
+    """Parts ``p`` and ``q`` of device ``tag`` are never closed at once (NO and NC; two selector positions)."""
+    if getattr(_device(ctx, tag), "kind", None) == "selector":
+        return p != q
+    return {p, q} in _CHANGEOVER
+
+
+def _exclusive(ctx: CheckContext, x: Element, y: Element, pairs: set[frozenset], cache: dict) -> bool:
+    """Loads ``x`` and ``y`` are never made at once.
+
+    Either a third device's contacts choose between them (x needs its NC, y
+    its NO: the device's state is given when the switch closes, so only one
+    is made), or they are an interlock pair with each coil through the
+    other's NC contact (RULES.md: the pair counts as one).
+    """
+    if frozenset((x.tag, y.tag)) in pairs and _interlocked(ctx, x, y.tag) and _interlocked(ctx, y, x.tag):
+        return True
+    need_y = _required_contacts(ctx, y, cache)
+    for tag, p in _required_contacts(ctx, x, cache):
+        if tag in (x.tag, y.tag):
+            continue
+        if any(t == tag and _never_closed_together(ctx, tag, p, q) for t, q in need_y):
+            return True
+    return False
+
+
+def _made_at_once(ctx: CheckContext, branches: list[list[Element]], pairs: set[frozenset], cache: dict) -> list[list[Element]]:
+    """The largest set of branches that can be made together (the first such set, in file order).
+
+    Two branches exclude each other when every load of one excludes every
+    load of the other. The branches of one contact are few; beyond 12 every
+    branch is counted (no search).
+    """
+    n = len(branches)
+    if n > 12:
+        return branches
+    apart = [[all(_exclusive(ctx, x, y, pairs, cache) for x in branches[i] for y in branches[j]) if i != j else False
+              for j in range(n)] for i in range(n)]
+    best: list[int] = []
+    for mask in range(1, 1 << n):
+        chosen = [i for i in range(n) if mask >> i & 1]
+        if len(chosen) <= len(best):
+            continue
+        if not any(apart[i][j] for i in chosen for j in chosen if i < j):
+            best = chosen
+    return [branches[i] for i in best]
 
 
 def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
     circuit = ctx.circuit
     limit = ctx.options.get("max_inductive", 1)
-    pairs: list[tuple[str, str]] | None = None
+    pairs: set[frozenset] | None = None
+    cache: dict = {}
     for el in ctx.schematic.elements:
         dev = _device(ctx, el.tag)
         if el.role != "contact" or not _is_mechanical(dev) or not _makes(dev, el):
@@ -487,9 +544,12 @@ def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
         loads = [x for x in circuit.served_loads(el) if x.inductive]
         if len(loads) <= limit:
             continue
+        branches = _power_branches(ctx, loads)
+        if len(branches) <= limit:
+            continue
         if pairs is None:
-            pairs = _interlock_pairs(ctx)
-        branches = _power_branches(ctx, loads, pairs)
+            pairs = {frozenset(p) for p in _interlock_pairs(ctx)}
+        branches = _made_at_once(ctx, branches, pairs, cache)
         if len(branches) <= limit:
             continue
         supply = circuit.supply_of(branches[0][0])
@@ -912,9 +972,11 @@ RULES = [
             "interposing devices. A contact makes when its closing can energize the loads: every NO contact "
             "and selector position, and the NC contact of a maintained or process switch (it makes when the "
             "switch returns). The NC contact of a momentary pushbutton, a stop, only breaks the sealed current "
-            "of what it stops, which contact-rating checks, and is not counted. The two coils of an interlock "
-            "pair count as one where each has the other's NC contact in series, since they are then never on "
-            "together."
+            "of what it stops, which contact-rating checks, and is not counted.\n\n"
+            "Only branches made at once count: where a third device's NC and NO contacts choose between two "
+            "loads (a start-delay timer's NC to the warning horn and its NO to the starter), the switch makes "
+            "one of them. The two coils of an interlock pair count as one where each has the other's NC "
+            "contact in series, since they are then never on together."
         ),
         source="common practice (a switch making several inductive loads carries their summed inrush; relays interpose)",
         check=check_switch_fan_out,
