@@ -87,6 +87,14 @@ class Rule:
     passing: Example | None = None
     options: dict[str, Option] = field(default_factory=dict)
     plugin: str = ""  # filled in by the host with the registering plugin's name
+    # A rule that must look across the files of a run (a control transformer
+    # in a shared device file feeds supplies of several schematics) gives
+    # both: ``collect(ctx)`` returns plain JSON data for one file (kept in
+    # the cache with the file's result, so it must hold only dicts, lists,
+    # text and numbers), and ``combine(data)`` gets the data of every file
+    # of the run that gave some and yields findings, located in any file.
+    collect: Callable[["CheckContext"], Any] | None = None
+    combine: Callable[[list[Any]], Iterable[Finding]] | None = None
 
 
 @dataclass

@@ -24,6 +24,7 @@ class FileResult:
     diagnostics: list[Diagnostic]
     used_files: list[str] = field(default_factory=list)
     loaded: bool = True
+    shared: dict[str, Any] = field(default_factory=dict)  # per rule, for its run-wide pass (Rule.combine)
 
 
 @dataclass
@@ -58,13 +59,14 @@ class Checker:
             path = result.diagnostics[0].path if result.diagnostics else "?"
             return FileResult(path, list(result.diagnostics), result.used_files, loaded=False)
         diags = [plugin_error(sch.path, f"plugin {p.plugin}: {p.message}") for p in self.host.problems]
+        shared: dict[str, Any] = {}
         if not sch.device_file:
-            diags.extend(run_rules(self.host, sch, self.settings))
+            diags.extend(run_rules(self.host, sch, self.settings, shared))
         known = set(self.host.rules) | BUILTIN_CORE_RULES
         if MARKER in sch.text:  # the file's lines are split only when it holds a suppression
             diags = apply_suppressions(sch.path, sch.text_lines, diags, known)
         diags = [d for d in diags if d.rule in BUILTIN_CORE_RULES or d.rule in self.settings.enabled]
-        return FileResult(sch.path, sorted(set(diags)), result.used_files)
+        return FileResult(sch.path, sorted(set(diags)), result.used_files, shared=shared)
 
 
 def worst(diagnostics: Iterable[Diagnostic]) -> Severity | None:

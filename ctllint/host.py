@@ -266,8 +266,12 @@ class _Deadline:
         return self.seconds > 0 and time.monotonic() - self.started >= self.seconds
 
 
-def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings) -> list[Diagnostic]:
-    """Run the enabled rules on a loaded schematic; plugin faults become findings."""
+def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings, shared: dict[str, Any] | None = None) -> list[Diagnostic]:
+    """Run the enabled rules on a loaded schematic; plugin faults become findings.
+
+    A rule with ``collect`` puts what it collects for the run-wide pass
+    into ``shared`` under its name (``combine_rules`` reads it).
+    """
     from .circuit import Circuit
 
     path = schematic.path
@@ -288,6 +292,10 @@ def run_rules(host: PluginHost, schematic: Schematic, settings: RuleSettings) ->
                 deadline.armed = True
                 try:
                     found = _take(rule.check(ctx), cap)
+                    if rule.collect is not None and shared is not None:
+                        data = rule.collect(ctx)
+                        if data:
+                            shared[name] = data
                 finally:  # disarmed before any handler below runs
                     deadline.armed = False
             except PluginTimeout:
@@ -388,4 +396,29 @@ def _to_diagnostics(found: list[Any], rule: Rule, settings: RuleSettings, path: 
         if f.severity is not None and rule.name not in settings.severities:
             sev = f.severity
         out.append(Diagnostic(f.at.path, f.at.line, f.at.column, rule.name, sev, f.message, f.subject))
+    return out
+
+
+def combine_rules(host: PluginHost, settings: RuleSettings, shared: list[dict[str, Any]]) -> list[Diagnostic]:
+    """The run-wide pass: each enabled rule with ``combine`` gets what its
+    ``collect`` gave for every file of the run; a fault is a plugin-error
+    at line 1 of the first file that gave data, and the other rules still run."""
+    out: list[Diagnostic] = []
+    for name in settings.enabled:
+        rule = host.rules.get(name)
+        if rule is None or rule.combine is None:
+            continue
+        data = [s[name] for s in shared if name in s]
+        if not data:
+            continue
+        try:
+            found = _take(rule.combine(data), MAX_FINDINGS)
+        except (Exception, SystemExit) as exc:  # noqa: BLE001
+            first = next((d.get("path") for d in data if isinstance(d, dict) and isinstance(d.get("path"), str)), "?")
+            out.append(plugin_error(first, f"rule {name} ({rule.plugin}) raised {_one_line(exc)} in its run-wide pass"))
+            continue
+        if found is None:
+            continue
+        for f in found:
+            out.extend(_to_diagnostics([f], rule, settings, f.at.path if isinstance(getattr(f, "at", None), Location) else "?"))
     return out

@@ -20,11 +20,11 @@ from . import __version__
 from .config import Config
 from .discover import Target, discover
 from .engine import Checker, FileResult
-from .host import PluginHost, RuleSettings
+from .host import PluginHost, RuleSettings, combine_rules
 from .loader import SCHEMATIC_SUFFIXES, find_repository_root
 from .model import Diagnostic, Severity
 
-CACHE_FORMAT = 1
+CACHE_FORMAT = 2  # 2: entries keep the data of run-wide rules (Rule.collect)
 
 
 @dataclass
@@ -98,7 +98,8 @@ class ResultCache:
             if _digest(used) != digest:
                 return None
         diags = [Diagnostic(d["path"], d["line"], d["column"], d["rule"], Severity(d["severity"]), d["message"], d.get("subject", "")) for d in data["diagnostics"]]
-        return FileResult(target.shown, diags, [u for u, _ in data.get("used", [])], data.get("loaded", True))
+        shared = data.get("shared", {})
+        return FileResult(target.shown, diags, [u for u, _ in data.get("used", [])], data.get("loaded", True), shared if isinstance(shared, dict) else {})
 
     def put(self, target: Target, digest: str | None, result: FileResult) -> None:
         if digest is None or any(d.rule == "plugin-error" for d in result.diagnostics):
@@ -107,6 +108,7 @@ class ResultCache:
             "digest": digest,
             "used": [[u, _digest(u)] for u in result.used_files],
             "loaded": result.loaded,
+            "shared": result.shared,
             "diagnostics": [{"path": d.path, "line": d.line, "column": d.column, "rule": d.rule, "severity": int(d.severity), "message": d.message, "subject": d.subject} for d in result.diagnostics],
         }
         entry = self._entry_path(target)
@@ -232,7 +234,52 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
         for i in todo:
             cache.put(targets[i], digests.get(i), results[i])
 
+    # Run-wide rules: a source device of a shared device file (a control
+    # transformer) sums the loads of every schematic that names it, so the
+    # schematics using that device file are brought in when one of them is
+    # checked alone (a pre-commit run on one changed file), then combined.
+    shared_files = sorted({f for r in results.values() for data in r.shared.values() for f in _shared_device_files(data)})
+    if shared_files:
+        known = {os.path.abspath(t.path) for t in targets}
+        for t in dependents(shared_files, cfg.exclude, base):
+            if os.path.abspath(t.path) in known:
+                continue
+            known.add(os.path.abspath(t.path))
+            targets.append(t)
+            i = len(targets) - 1
+            hit = cache.get(t) if cache else None
+            results[i] = hit if hit is not None else checker.check_file(t.path, display_path=t.shown)
+            if cache and hit is None:
+                cache.put(t, _digest(t.path), results[i])
     diagnostics: set[Diagnostic] = set()
     for r in results.values():
         diagnostics.update(r.diagnostics)
+    diagnostics.update(_suppressed(combine_rules(host, settings, [r.shared for r in results.values() if r.shared]), host))
     return RunResult(sorted(diagnostics), [t.shown for t in targets], cached=cached)
+
+
+def _shared_device_files(data) -> list[str]:
+    """Device files a run-wide rule's data names (``{"device_files": [...]}``)."""
+    files = data.get("device_files") if isinstance(data, dict) else None
+    return [f for f in files if isinstance(f, str)] if isinstance(files, list) else []
+
+
+def _suppressed(diags: list[Diagnostic], host: PluginHost) -> list[Diagnostic]:
+    """Suppression comments apply to run-wide findings as to any other."""
+    from .engine import BUILTIN_CORE_RULES
+    from .suppress import MARKER, apply_suppressions
+
+    out: list[Diagnostic] = []
+    by_path: dict[str, list[Diagnostic]] = {}
+    for d in diags:
+        by_path.setdefault(d.path, []).append(d)
+    for path, found in by_path.items():
+        try:
+            with open(path, encoding="utf-8", errors="replace") as handle:
+                text = handle.read(8_000_000)
+        except OSError:
+            text = ""
+        if MARKER in text:
+            found = apply_suppressions(path, text.splitlines(), found, set(host.rules) | BUILTIN_CORE_RULES)
+        out.extend(found)
+    return out

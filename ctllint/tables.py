@@ -23,6 +23,8 @@ __all__ = [
     "THREE_PHASE_FLC",
     "SINGLE_PHASE_FLC",
     "NEMA_SIZE_CURRENT",
+    "NEMA_SIZE_HP",
+    "DEFAULT_TRIP_MULTIPLE",
     "STANDARD_RATINGS",
     "STANDARD_FUSE_ONLY_RATINGS",
     "PILOT_DUTY",
@@ -37,6 +39,9 @@ __all__ = [
     "category_limits",
     "voltage_covered",
     "nema_size_current",
+    "nema_size_horsepower",
+    "controller_full_load_current",
+    "ultimate_trip_current",
     "next_standard_rating",
     "primary_fuse_required",
     "transformer_primary_limit",
@@ -203,24 +208,46 @@ def load_current(va_or_w: float, volts: float) -> float:
 # temperature rise of 40 C or less; 115 % for all other motors.
 OVERLOAD_FRACTION_HIGH = 1.25
 OVERLOAD_FRACTION_LOW = 1.15
+# NEC 430.32(C): where the 430.32(A)(1) setting will not start the motor or
+# carry its load, the next higher size or setting is allowed up to 140 %
+# (service factor >= 1.15 or rise <= 40 C) or 130 % (all others).
+STARTING_FRACTION_HIGH = 1.40
+STARTING_FRACTION_LOW = 1.30
 _SERVICE_FACTOR_HIGH = 1.15
 _TEMP_RISE_LOW_C = 40.0
 
+# The limit is on the trip current, not the dial. IEC 60947-4-1 (from
+# memory): a thermal or electronic overload relay must not trip at 1.05 x
+# its current setting and must trip at 1.20 x within its class time, so the
+# ultimate trip current is taken as 1.20 x the setting unless the relay says
+# otherwise (``trip_multiple``).
+DEFAULT_TRIP_MULTIPLE = 1.20
+
 
 def overload_limit(
-    fla: float, service_factor: float | None, temp_rise_c: float | None
+    fla: float, service_factor: float | None, temp_rise_c: float | None, starting_allowance: bool = False
 ) -> tuple[float, float]:
-    """The highest overload setting NEC 430.32(A)(1) allows.
+    """The highest overload trip current NEC 430.32 allows.
 
     Returns (limit in amperes, fraction of full-load current): 1.25 where the
     service factor is 1.15 or more or the temperature rise is 40 C or less,
-    else 1.15 (an unmarked motor takes 115 %).
+    else 1.15 (an unmarked motor takes 115 %), 430.32(A)(1); with the
+    starting allowance of 430.32(C), 1.40 and 1.30.
     """
     high = (service_factor is not None and _at_most(_SERVICE_FACTOR_HIGH, service_factor)) or (
         temp_rise_c is not None and _at_most(temp_rise_c, _TEMP_RISE_LOW_C)
     )
-    fraction = OVERLOAD_FRACTION_HIGH if high else OVERLOAD_FRACTION_LOW
+    if starting_allowance:
+        fraction = STARTING_FRACTION_HIGH if high else STARTING_FRACTION_LOW
+    else:
+        fraction = OVERLOAD_FRACTION_HIGH if high else OVERLOAD_FRACTION_LOW
     return fla * fraction, fraction
+
+
+def ultimate_trip_current(setting: float, trip_multiple: float | None = None) -> float:
+    """The current an overload relay set at ``setting`` trips at in the end:
+    setting x trip multiple (default 1.20, IEC 60947-4-1)."""
+    return setting * (DEFAULT_TRIP_MULTIPLE if trip_multiple is None else trip_multiple)
 
 
 # ---------------------------------------------------------------------------
@@ -316,16 +343,22 @@ def pilot_duty(designation: str) -> PilotDuty | None:
     return PILOT_DUTY.get(designation.strip().upper())
 
 
+_DC_VA_UP_TO_V = 300.0
+
+
 def pilot_duty_limits(designation: str, volts: float, current_kind: str) -> PilotLimits | None:
     """Continuous, make and break current a pilot-duty contact allows.
 
-    AC (letters A-E): below 120 V the 120 V figures apply; at a column
+    AC (letters A-E): below 120 V the make current as at 120 V and the break
+    current = break VA / V, not above the continuous current; at a column
     voltage that column's figures; between columns the VA figures divided by
-    the voltage. DC (letters N-R): the column at or above the supply voltage,
-    make = break; where a letter has no such column (R above 250 V) the VA
-    figure divided by the voltage. A designation covers voltages up to its
-    number. Returns None for an unknown designation, a voltage above the
-    designation's, or an AC designation on DC (or DC on AC).
+    the voltage. DC (letters N-R): up to 300 V make = break = VA / V, not
+    above the continuous current (the 125 V and 250 V columns are exactly
+    that); above 300 V the 301-600 V column. A designation covers voltages
+    up to its number. Returns None for an unknown designation, a voltage
+    above the designation's, or an AC designation on DC (or DC on AC).
+    Readings below and between the columns: CHECK-VALUES.md, as makers'
+    tables restate UL 508 / ICS 5 (from memory, medium confidence).
     """
     duty = pilot_duty(designation)
     if duty is None or not _positive(volts):
@@ -338,14 +371,26 @@ def pilot_duty_limits(designation: str, volts: float, current_kind: str) -> Pilo
         for column_v, make, brk in duty.columns:
             if _close(volts, column_v):
                 return PilotLimits(duty.continuous, make, brk)
-        lowest_v, make, brk = duty.columns[0]
+        lowest_v, make, _ = duty.columns[0]
         if volts < lowest_v:
-            return PilotLimits(duty.continuous, make, brk)
+            # below 120 V: the make current as at 120 V; the break current is
+            # the break VA over the voltage, but never above the continuous
+            # current (B300 at 24 VAC breaks 5 A, not 3 A)
+            return PilotLimits(duty.continuous, make, min(duty.break_va / volts, duty.continuous))
         return PilotLimits(duty.continuous, duty.make_va / volts, duty.break_va / volts)
+    for column_v, make, brk in duty.columns:
+        if _close(volts, column_v):  # at a column voltage, the published column figure
+            return PilotLimits(duty.continuous, make, brk)
+    if _at_most(volts, _DC_VA_UP_TO_V):
+        # up to 300 V (the VA figure's range; the 125 V and 250 V columns are
+        # that VA over their voltage): make = break = VA / V, never above the
+        # continuous current (N at 24 VDC: 10 A; R: 1.0 A)
+        amps = min(duty.make_va / volts, duty.continuous)
+        return PilotLimits(duty.continuous, amps, amps)
     for column_v, make, brk in duty.columns:
         if _at_most(volts, column_v):
             return PilotLimits(duty.continuous, make, brk)
-    return PilotLimits(duty.continuous, duty.make_va / volts, duty.break_va / volts)
+    return None
 
 
 # ---------------------------------------------------------------------------
@@ -354,12 +399,15 @@ def pilot_duty_limits(designation: str, volts: float, current_kind: str) -> Pilo
 
 # IEC 60947-5-1 utilisation categories of control-circuit contacts (from
 # memory): category -> (make multiple of Ie, break multiple of Ie). AC-15
-# makes 10 x Ie and breaks 1 x Ie (cos phi 0.3); DC-13 makes and breaks
-# 1 x Ie (T0.95 = 6 x P ms, at most 300 ms). Any other category (AC-12,
-# AC-14, DC-12, DC-14 ...) is read as make = break = Ie (RULES.md).
+# makes 10 x Ie and breaks 1 x Ie (cos phi 0.3); AC-14 makes 6 x Ie; DC-13
+# makes and breaks 1 x Ie (T0.95 = 6 x P ms, at most 300 ms); DC-14 makes
+# 10 x Ie. Any other category (AC-12, DC-12 ...) is read as make = break =
+# Ie (RULES.md).
 _CATEGORY_MULTIPLES: dict[str, tuple[float, float]] = {
     "AC-15": (10.0, 1.0),
+    "AC-14": (6.0, 1.0),   # small electromagnetic loads (<= 72 VA): makes 6 x Ie
     "DC-13": (1.0, 1.0),
+    "DC-14": (10.0, 1.0),  # makes 10 x Ie
 }
 
 
@@ -406,6 +454,79 @@ NEMA_SIZE_CURRENT: dict[str, float] = {
 def nema_size_current(size: str | int) -> float | None:
     """Continuous current of a NEMA size (``"00"``, ``0``, ``"1"`` ...), or None."""
     return NEMA_SIZE_CURRENT.get(str(size).strip())
+
+
+# NEMA ICS 2, three-phase magnetic controllers: the largest motor of each
+# size in horsepower at 200 V, 230 V and 460-575 V (None: no rating at that
+# voltage). Controllers are selected by horsepower at the motor's voltage
+# (NEC 430.83(A)); the continuous current above serves non-motor loads.
+# From memory, as CHECK-VALUES.md gives them (sizes 00-6 high confidence,
+# 7-9 medium, checked against a published summary by a second reader).
+NEMA_SIZE_HP: dict[str, tuple[float | None, float | None, float | None]] = {
+    "00": (1.5, 1.5, 2.0),
+    "0": (3.0, 3.0, 5.0),
+    "1": (7.5, 7.5, 10.0),
+    "2": (10.0, 15.0, 25.0),
+    "3": (25.0, 30.0, 50.0),
+    "4": (40.0, 50.0, 100.0),
+    "5": (75.0, 100.0, 200.0),
+    "6": (150.0, 200.0, 400.0),
+    "7": (None, 300.0, 600.0),
+    "8": (None, 450.0, 900.0),
+    "9": (None, 800.0, 1600.0),
+}
+
+# Which NEMA horsepower column a motor voltage reads, as inclusive ranges:
+# 200-208 V the 200 V column (a 208 V system motor is a 200 V motor, common
+# practice), 220-240 V the 230 V column, 440-600 V the 460/575 V column.
+_NEMA_HP_COLUMNS = ((200.0, 208.0, 0, "200 V"), (220.0, 240.0, 1, "230 V"), (440.0, 600.0, 2, "460-575 V"))
+
+
+# NEMA ICS 2, single-phase magnetic controllers: the largest motor of each
+# size in horsepower at 115 V and 230 V. From memory, medium confidence (not
+# in CHECK-VALUES.md; a second reading is wanted); sizes above 3 are not
+# held, so such a motor is reported as not verified rather than guessed.
+NEMA_SIZE_HP_SINGLE_PHASE: dict[str, tuple[float, float]] = {
+    "00": (1 / 3, 1.0),
+    "0": (1.0, 2.0),
+    "1": (2.0, 3.0),
+    "2": (3.0, 7.5),
+    "3": (7.5, 15.0),
+}
+_NEMA_HP_SINGLE_PHASE_COLUMNS = ((110.0, 120.0, 0, "115 V single-phase"), (220.0, 240.0, 1, "230 V single-phase"))
+
+
+def nema_size_horsepower(size: str | int, volts: float, phases: int = 3) -> tuple[float | None, str]:
+    """(largest motor in hp, column name) of a NEMA size at a motor voltage;
+    (None, "") where the voltage reads no column or the size's single-phase
+    rating is not held, (None, column) where the size has no rating in that
+    column."""
+    if phases == 1:
+        row1 = NEMA_SIZE_HP_SINGLE_PHASE.get(str(size).strip())
+        if row1 is None or not _positive(volts):
+            return None, ""
+        for low, high, index, name in _NEMA_HP_SINGLE_PHASE_COLUMNS:
+            if _at_most(low, volts) and _at_most(volts, high):
+                return row1[index], name
+        return None, ""
+    row = NEMA_SIZE_HP.get(str(size).strip())
+    if row is None or not _positive(volts):
+        return None, ""
+    for low, high, index, name in _NEMA_HP_COLUMNS:
+        if _at_most(low, volts) and _at_most(volts, high):
+            return row[index], name
+    return None, ""
+
+
+def controller_full_load_current(table_a: float | None, nameplate_a: float | None) -> float | None:
+    """The full-load current a controller is sized with (NEC 430.6(A)(1)):
+    the table value, or the nameplate where larger or where the table has
+    no row."""
+    if table_a is None:
+        return nameplate_a
+    if nameplate_a is None:
+        return table_a
+    return max(table_a, nameplate_a)
 
 
 # ---------------------------------------------------------------------------
@@ -477,10 +598,17 @@ def _percent(fraction: float) -> str:
     return f"{fraction * 100:.0f} %"
 
 
-def primary_fuse_required(rating_va: float) -> bool:
-    """Whether a control transformer needs primary fuses: not below 50 VA
-    (NEC 430.72(C)(3))."""
-    return not rating_va < _SMALL_TRANSFORMER_VA
+def primary_fuse_required(rating_va: float, class2: bool = False, integral: bool = False) -> bool:
+    """Whether a control transformer needs primary protection.
+
+    Not where it is Class 2 or Class 1 power-limited (NEC 430.72(C)(1)), nor
+    where it is under 50 VA AND integral to the controller within its
+    enclosure (430.72(C)(3)); a transformer marked as neither needs it,
+    whatever its size.
+    """
+    if class2:
+        return False
+    return not (integral and rating_va < _SMALL_TRANSFORMER_VA)
 
 
 def transformer_primary_limit(

@@ -370,7 +370,7 @@ def test_a_failing_checker_leaves_findings_uncompared():
         def check_text(self, text, path):
             raise RuntimeError("boom")
 
-    d = diff_revisions(Revision("a.ctl.yaml", text=BASE), Revision("a.ctl.yaml", text=BASE.replace("82 A", "90 A")), Broken())
+    d = diff_revisions(Revision("a.ctl.yaml", text=BASE), Revision("a.ctl.yaml", text=BASE.replace("setting: 82 A", "setting: 90 A")), Broken())
     assert not d.findings_compared and any("boom" in n for n in d.notes)
     assert [dev.tag for dev in d.devices] == ["OL1"]
 

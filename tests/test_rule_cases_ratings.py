@@ -4,6 +4,7 @@ import pytest
 from ctllint.testing import case_params, check_case
 
 RULES = {
+    "motor-overload",
     "contact-rating",
     "overload-setting",
     "control-transformer",

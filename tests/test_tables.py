@@ -329,11 +329,30 @@ def test_a150_at_its_top_voltage():
     assert limits.break_ == pytest.approx(720 / 150)
 
 
-def test_c150_at_24vac_reads_120v_figures():
-    # RULES.md: below 120 V AC the 120 V figures apply. C: 15 / 1.5 A, 2.5 A.
+def test_c150_at_24vac_makes_as_at_120v_and_breaks_va_over_v_up_to_continuous():
+    # CHECK-VALUES.md (makers' restatement of UL 508 / ICS 5, from memory):
+    # below 120 V AC the make current is as at 120 V (C: 15 A) and the break
+    # current is break VA / V (180 / 24 = 7.5 A) but not above the 2.5 A
+    # continuous current.
     limits = pilot_duty_limits("C150", 24.0, "AC")
     assert (limits.continuous, limits.make, limits.break_) == (
-        pytest.approx(2.5), pytest.approx(15.0), pytest.approx(1.5))
+        pytest.approx(2.5), pytest.approx(15.0), pytest.approx(2.5))
+
+
+def test_b300_at_24vac_breaks_5a_not_3a():
+    # CHECK-VALUES.md worked example: B300 at 24 VAC breaks 5 A, not 3 A.
+    assert pilot_duty_limits("B300", 24.0, "AC").break_ == pytest.approx(5.0)
+
+
+def test_a600_at_48vac_break_is_va_over_v():
+    # 720 VA / 48 V = 15 A, capped at A's 10 A continuous; make 60 A as at 120 V.
+    limits = pilot_duty_limits("A600", 48.0, "AC")
+    assert (limits.make, limits.break_) == (pytest.approx(60.0), pytest.approx(10.0))
+
+
+def test_d300_at_100vac_break_below_continuous():
+    # D: 72 VA / 100 V = 0.72 A, below its 1.0 A continuous: not capped.
+    assert pilot_duty_limits("D300", 100.0, "AC").break_ == pytest.approx(0.72)
 
 
 @pytest.mark.parametrize(
@@ -367,19 +386,25 @@ NEMA_DC = {
 
 
 def test_n600_at_24vdc():
-    # DC uses the column at or above the supply voltage: 24 V -> 125 V
-    # column, N: 2.2 A make and break, 10 A continuous.
+    # CHECK-VALUES.md: DC up to 250 V make = break = VA / V, not above the
+    # continuous current: N at 24 VDC 275 / 24 = 11.5 A -> 10 A.
     limits = pilot_duty_limits("N600", 24.0, "DC")
     assert (limits.continuous, limits.make, limits.break_) == (
-        pytest.approx(10.0), pytest.approx(2.2), pytest.approx(2.2))
+        pytest.approx(10.0), pytest.approx(10.0), pytest.approx(10.0))
+
+
+def test_r300_at_24vdc():
+    # CHECK-VALUES.md worked: R at 24 VDC: 28 / 24 = 1.17 A -> 1.0 A continuous.
+    assert pilot_duty_limits("R300", 24.0, "DC").make == pytest.approx(1.0)
 
 
 @pytest.mark.parametrize("letter", sorted(NEMA_DC))
-@pytest.mark.parametrize(
-    ("volts", "column"),
-    [(24.0, 0), (125.0, 0), (126.0, 1), (250.0, 1), (301.0, 2), (600.0, 2)],
-)
+@pytest.mark.parametrize(("volts", "column"), [(125.0, 0), (250.0, 1), (301.0, 2), (600.0, 2)])
 def test_pilot_duty_dc_columns(letter, volts, column):
+    # At the column voltages and above 300 V, the published columns (same
+    # transcription as ctllint.tables: both from CHECK-VALUES.md; second
+    # reading: the 125 V and 250 V columns agree with VA / V to the figures'
+    # rounding, checked in test_dc_columns_agree_with_va_over_v).
     continuous, columns, _va = NEMA_DC[letter]
     expected = columns[column]
     designation = f"{letter}600" if letter != "R" else f"{letter}300"
@@ -390,6 +415,23 @@ def test_pilot_duty_dc_columns(letter, volts, column):
     assert limits.continuous == pytest.approx(continuous)
     assert limits.make == pytest.approx(expected)
     assert limits.break_ == pytest.approx(expected)
+
+
+@pytest.mark.parametrize("letter", sorted(NEMA_DC))
+def test_dc_columns_agree_with_va_over_v(letter):
+    # An independent reading of the same table: the 125 V and 250 V columns
+    # are the VA figure over the voltage, rounded to two figures.
+    _, columns, va = NEMA_DC[letter]
+    for volts, amps in zip((125.0, 250.0), columns[:2]):
+        assert amps == pytest.approx(va / volts, rel=0.03)
+
+
+@pytest.mark.parametrize("letter", sorted(NEMA_DC))
+@pytest.mark.parametrize("volts", [24.0, 48.0, 126.0, 200.0, 280.0])
+def test_pilot_duty_dc_between_columns_is_va_over_v_up_to_continuous(letter, volts):
+    continuous, _, va = NEMA_DC[letter]
+    limits = pilot_duty_limits(f"{letter}300", volts, "DC")
+    assert limits.make == limits.break_ == pytest.approx(min(va / volts, continuous))
 
 
 def test_pilot_duty_record():
@@ -435,11 +477,12 @@ def test_pilot_duty_is_frozen():
         pytest.param("AC-15", 3.0, 30.0, 3.0, id="IEC60947-5-1-AC-15"),
         # DC-13 makes and breaks Ie.
         pytest.param("DC-13", 0.22, 0.22, 0.22, id="IEC60947-5-1-DC-13"),
+        # IEC 60947-5-1 (from memory): AC-14 makes 6 x Ie, DC-14 makes 10 x Ie.
+        pytest.param("AC-14", 1.0, 6.0, 1.0, id="IEC60947-5-1-AC-14"),
+        pytest.param("DC-14", 0.5, 5.0, 0.5, id="IEC60947-5-1-DC-14"),
         # RULES.md: other categories make = break = Ie.
         pytest.param("AC-12", 6.0, 6.0, 6.0, id="AC-12"),
-        pytest.param("AC-14", 1.0, 1.0, 1.0, id="AC-14"),
         pytest.param("DC-12", 2.0, 2.0, 2.0, id="DC-12"),
-        pytest.param("DC-14", 0.5, 0.5, 0.5, id="DC-14"),
     ],
 )
 def test_category_limits(category, ie, make, brk):
@@ -566,12 +609,16 @@ def test_secondary_at_standard_rating_stays():
     assert limit == pytest.approx(15.0)
 
 
-@pytest.mark.parametrize(("va", "required"), [(25.0, False), (49.9, False), (50.0, True),
-                                              (100.0, True)])
-def test_primary_fuse_required(va, required):
-    # NEC 430.72(C)(3): under 50 VA, integral to the controller, primary
-    # devices may be omitted.
-    assert primary_fuse_required(va) is required
+@pytest.mark.parametrize(("va", "class2", "integral", "required"), [
+    (25.0, False, False, True),    # 430.72(C)(3) needs BOTH under 50 VA and integral: unmarked needs it
+    (49.9, False, True, False),    # under 50 VA, integral to the controller: may go without
+    (50.0, False, True, True),     # 50 VA is not under 50 VA
+    (100.0, True, False, False),   # 430.72(C)(1): Class 2 needs nothing beyond its listing
+    (100.0, False, False, True),
+])
+def test_primary_fuse_required(va, class2, integral, required):
+    # NEC 430.72(C)(1) and (C)(3), as CHECK-VALUES.md reads them.
+    assert primary_fuse_required(va, class2, integral) is required
 
 
 # ---------------------------------------------------------------------------
@@ -616,3 +663,65 @@ def test_sources_named_in_module():
         assert citation in source, citation
     assert source.count("from memory") >= 5
     assert not math.isnan(HP_W)
+
+
+# ---------------------------------------------------------------------------
+# NEMA ICS 2 sizes by horsepower at the motor's voltage
+# ---------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize(("size", "volts", "hp"), [
+    # CHECK-VALUES.md, NEMA ICS 2 table (from memory, second reader checked):
+    ("1", 460.0, 10.0), ("2", 460.0, 25.0), ("2", 230.0, 15.0), ("3", 208.0, 25.0),
+    ("00", 575.0, 2.0), ("6", 460.0, 400.0), ("9", 230.0, 800.0),
+])
+def test_nema_size_horsepower(size, volts, hp):
+    assert tables.nema_size_horsepower(size, volts)[0] == hp
+
+
+def test_nema_worked_examples():
+    # CHECK-VALUES.md worked: 20 hp at 460 V needs size 2; 15 hp at 460 V on
+    # size 1 (10 hp) is undersized although 21 A < 27 A.
+    assert tables.nema_size_horsepower("1", 460.0)[0] < 15 < tables.nema_size_horsepower("2", 460.0)[0]
+    assert 20 <= tables.nema_size_horsepower("2", 460.0)[0]
+    assert tables.motor_full_load_current(15 * tables.HP_W, 460.0, 3) < tables.nema_size_current("1")
+
+
+@pytest.mark.parametrize(("size", "volts", "index"), [
+    (size, 230.0, 1) for size in ("0", "1", "2", "3", "4", "5", "6")
+] + [
+    (size, 460.0, 2) for size in ("0", "1", "2", "3", "4", "5")  # size 6 at 460 V is 400 hp: beyond the held table
+])
+def test_nema_sizes_agree_with_nec_currents(size, volts, index):
+    # A second, independent reading: the NEC Table 430.250 current of a
+    # size's largest motor stays within the size's continuous current (two
+    # tables from two documents that must agree).
+    hp = tables.NEMA_SIZE_HP[size][index]
+    flc = tables.motor_full_load_current(hp * tables.HP_W, volts, 3)
+    assert flc is not None and flc <= tables.nema_size_current(size)
+
+
+def test_nema_voltage_outside_the_columns_is_not_read():
+    # NEMA ICS 2 columns are 200, 230 and 460-575 V: 400 V reads none.
+    assert tables.nema_size_horsepower("2", 400.0) == (None, "")
+    assert tables.nema_size_horsepower("7", 200.0)[0] is None
+
+
+def test_controller_current_is_the_larger_of_table_and_nameplate():
+    # NEC 430.6(A)(1): table value, or the nameplate where larger or where no row.
+    assert tables.controller_full_load_current(40.0, 38.0) == 40.0
+    assert tables.controller_full_load_current(40.0, 44.0) == 44.0
+    assert tables.controller_full_load_current(None, 44.0) == 44.0
+
+
+def test_ultimate_trip_is_1_2_times_the_dial():
+    # IEC 60947-4-1 (from memory) trips at 1.20 x setting; CHECK-VALUES.md:
+    # a dial at 125 % of FLA trips near 150 %.
+    assert tables.ultimate_trip_current(1.25) == pytest.approx(1.5)
+    assert tables.ultimate_trip_current(10.0, 1.05) == pytest.approx(10.5)
+
+
+def test_starting_allowance_fractions():
+    # NEC 430.32(C): 140 % (SF >= 1.15) and 130 % (others); worked 38 A.
+    assert overload_limit(38.0, 1.15, None, True)[0] == pytest.approx(53.2)
+    assert overload_limit(38.0, 1.0, None, True)[0] == pytest.approx(49.4)
