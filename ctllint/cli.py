@@ -20,7 +20,7 @@ from . import __version__
 from .config import Config, ConfigError, find_config, load_config, resolve_rules
 from .host import PluginHost, RuleSettings
 from .model import Diagnostic, Severity
-from .report import SAFETY_NOTE, render_text, summary_line, use_colour
+from .report import SAFETY_NOTE, render_text, render_with_note, summary_line, use_colour
 
 EXIT_OK, EXIT_FINDINGS, EXIT_USAGE, EXIT_INTERNAL = 0, 1, 2, 3
 
@@ -211,7 +211,10 @@ def _configure_check(p: argparse.ArgumentParser) -> None:
     p.epilog = ("exit status: 0 no finding at or above --fail-on, 1 at least one, 2 usage or\n"
                 "configuration error, 3 internal error.\n"
                 "suppress one finding with a comment on its line:\n"
-                "  # ctllint-allow: RULE -- reason")
+                "  # ctllint-allow: RULE -- reason\n"
+                "the safety note is shown on every run (standard error for text output; a\n"
+                "field of the JSON, SARIF and JUnit reports); --no-safety-note or\n"
+                "'safety-note: false' in the configuration leaves it out.")
     p.add_argument("paths", nargs="*", metavar="PATH", help="files or folders (default: the current folder); folders are searched for *.ctl.yaml and *.ctl.yml")
     p.add_argument("--format", default="text", metavar="FORMAT", help="text (default), json, sarif, junit, or a plugin's format")
     p.add_argument("-o", "--output", metavar="FILE", help="write the report to FILE (atomically) instead of standard output")
@@ -222,6 +225,7 @@ def _configure_check(p: argparse.ArgumentParser) -> None:
     p.add_argument("--no-cache", action="store_true", help="do not read or write the result cache")
     p.add_argument("--baseline", metavar="FILE", help="report only findings not recorded in this baseline")
     p.add_argument("--write-baseline", metavar="FILE", help="record today's findings in FILE and exit 0")
+    p.add_argument("--no-safety-note", action="store_true", help="leave the safety note out (standard error and the JSON, SARIF and JUnit reports); configuration: safety-note: false")
     add_config_args(p)
 
 
@@ -236,6 +240,7 @@ def _run_check(args: argparse.Namespace) -> int:
         raise UsageError("ctllint: --jobs must be at least 1")
     paths = args.paths or ["."]
     result = run_check(paths, cfg, host, settings, jobs=args.jobs, use_cache=not args.no_cache)
+    note = None if args.no_safety_note or not cfg.safety_note else SAFETY_NOTE
     if result.missing:
         raise UsageError("ctllint: " + "; ".join(f"path '{m}' does not exist" for m in result.missing))
     diagnostics = result.diagnostics
@@ -244,6 +249,8 @@ def _run_check(args: argparse.Namespace) -> int:
 
         write_baseline(args.write_baseline, diagnostics)
         print(f"ctllint: recorded {len(diagnostics)} finding(s) in {args.write_baseline}", file=sys.stderr)
+        if note:
+            print(note_text(note), file=sys.stderr)
         return EXIT_OK
     if args.baseline:
         from .baseline import filter_baseline
@@ -256,7 +263,7 @@ def _run_check(args: argparse.Namespace) -> int:
     if args.format == "text":
         text = render_text(shown, files, host.rules, colour=args.output is None and use_colour())
     else:
-        text = fmt.render(shown, files, host.rules)
+        text = render_with_note(fmt, shown, files, host.rules, note)
     write_output(text, args.output)
     fail_on = Severity.parse(args.fail_on or cfg.fail_on or "error")
     failed = any(d.severity >= fail_on for d in diagnostics)
@@ -265,9 +272,16 @@ def _run_check(args: argparse.Namespace) -> int:
         print(f"ctllint: {tail}", file=sys.stderr)
         if not result.files:
             print(f"ctllint: no *.ctl.yaml or *.ctl.yml files under {', '.join(paths)}", file=sys.stderr)
-        if diagnostics:
-            print(textwrap.fill(SAFETY_NOTE, 78), file=sys.stderr)
+    # The note on every run, clean ones too: on standard error after the
+    # summary, unless the report on standard output carries it itself.
+    if note and (args.format == "text" or args.output or args.format not in ("json", "sarif", "junit")):
+        print(note_text(note), file=sys.stderr)
     return EXIT_FINDINGS if failed else EXIT_OK
+
+
+def note_text(note: str) -> str:
+    """The safety note as a paragraph for a terminal or a CI log."""
+    return textwrap.fill(f"Safety note: {note}", 78)
 
 
 command("check", "check schematic files and print findings")((_configure_check, _run_check))
@@ -281,7 +295,9 @@ def _configure_rules(p: argparse.ArgumentParser) -> None:
 
 
 def rules_table(host: PluginHost, fmt: str = "text") -> str:
-    rows = [(r.name, r.plugin, str(r.severity), r.summary) for r in host.rules.values()]
+    from .core_rules import all_rules
+
+    rows = [(r.name, r.plugin, str(r.severity), r.summary) for r in all_rules(host.rules).values()]
     if fmt == "json":
         import json
 
@@ -313,13 +329,18 @@ def _configure_explain(p: argparse.ArgumentParser) -> None:
 
 
 def explain_text(rule: Any) -> str:
-    parts = [f"{rule.name}  ({rule.plugin} plugin, default severity {rule.severity})", "", rule.summary, ""]
-    parts += [textwrap.fill(para, 78) for para in textwrap.dedent(rule.doc).strip().split("\n\n")]
+    origin = "core rule" if rule.plugin == "core" else f"{rule.plugin} plugin"
+    parts = [f"{rule.name}  ({origin}, default severity {rule.severity})", "", rule.summary, ""]
+    paragraphs = textwrap.dedent(rule.doc).strip().split("\n\n")
+    parts.append("\n\n".join(textwrap.fill(para, 78, break_on_hyphens=False) for para in paragraphs))
     parts += ["", f"Source: {rule.source}"]
     for label, ex in (("Failing example", rule.failing), ("Passing example", rule.passing)):
         if ex is not None:
             parts += ["", f"{label}: {ex.title}", textwrap.indent(textwrap.dedent(ex.yaml).strip("\n"), "    ")]
     parts += ["", "Options:"]
+    if rule.plugin == "core":
+        parts.append("    none: a core rule cannot be disabled, re-graded, configured or suppressed")
+        return "\n".join(parts) + "\n"
     if rule.options:
         for name, opt in rule.options.items():
             parts.append(f"    {name} (default {opt.default!r}): {opt.doc}")
@@ -330,12 +351,15 @@ def explain_text(rule: Any) -> str:
 
 
 def _run_explain(args: argparse.Namespace) -> int:
+    from .core_rules import all_rules
+
     _, host = setup(args, trust_local=True)
-    rule = host.rules.get(args.rule)
+    known = all_rules(host.rules)
+    rule = known.get(args.rule)
     if rule is None:
         import difflib
 
-        hint = difflib.get_close_matches(args.rule, list(host.rules), n=1)
+        hint = difflib.get_close_matches(args.rule, list(known), n=1)
         raise UsageError(f"ctllint: no rule named '{args.rule}'" + (f" (did you mean '{hint[0]}'?)" if hint else "; see 'ctllint rules'"))
     sys.stdout.write(explain_text(rule))
     return EXIT_OK

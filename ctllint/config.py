@@ -18,6 +18,7 @@ Keys::
              max_elements: 1000000, plugin_seconds: 60}
     cache: true            # or false, or a folder
     jobs: 2
+    safety-note: true      # false leaves the safety note out of check's output
 """
 from __future__ import annotations
 
@@ -27,11 +28,12 @@ import re
 from dataclasses import dataclass, field, fields
 from typing import Any
 
+from .core_rules import CORE_RULE_NAMES
 from .model import Severity
 from .yamlsafe import Limits, YamlProblem, check_tree, compose, pos, scalar_value
 
 CONFIG_NAMES = (".ctllint.yaml", ".ctllint.yml")
-KEYS = ("select", "ignore", "fail-on", "rules", "plugins", "exclude", "limits", "cache", "jobs")
+KEYS = ("select", "ignore", "fail-on", "rules", "plugins", "exclude", "limits", "cache", "jobs", "safety-note")
 
 
 class ConfigError(Exception):
@@ -56,6 +58,7 @@ class Config:
     cache: bool | str = True
     jobs: int | None = None
     untrusted_plugins: list[str] = field(default_factory=list)  # named under plugins: but not loaded (no --plugins)
+    safety_note: bool = True
     lines: dict[str, int] = field(default_factory=dict)  # "rules.NAME.KEY" -> line, for messages
 
     def line_of(self, key: str) -> int:
@@ -243,6 +246,10 @@ def _build(path: str, data: Any, lines: dict[str, int]) -> Config:
         if isinstance(data["jobs"], bool) or not isinstance(data["jobs"], int) or data["jobs"] < 1:
             fail("jobs", "'jobs' must be a whole number of at least 1")
         cfg.jobs = data["jobs"]
+    if "safety-note" in data:
+        if not isinstance(data["safety-note"], bool):
+            fail("safety-note", "'safety-note' must be true or false")
+        cfg.safety_note = data["safety-note"]
     return cfg
 
 
@@ -265,7 +272,7 @@ def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ig
                 out.add(item)
             elif item in plugins:
                 out.update(n for n, r in rules.items() if r.plugin == item)
-            elif item in ("format", "plugin-error", "suppression"):
+            elif item in CORE_RULE_NAMES:
                 continue
             elif lenient and not from_cli:
                 continue
@@ -289,6 +296,8 @@ def resolve_rules(cfg: Config, rules: dict, cli_select: list[str] | None, cli_ig
     options = {name: {k: o.default for k, o in rule.options.items()} for name, rule in rules.items()}
     for name, settings in cfg.rules.items():
         where = f"rules.{name}"
+        if name in CORE_RULE_NAMES:
+            raise ConfigError(cfg.path or "?", cfg.line_of(where), f"'{name}' is a core rule: it cannot be disabled, re-graded or configured")
         if name not in rules and lenient:
             continue
         if name not in rules:

@@ -8,13 +8,14 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Iterable
 
+from .core_rules import CORE_RULE_NAMES
 from .host import PluginHost, RuleSettings, plugin_error, run_rules
 from .loader import DeviceFileCache, LoadResult, load_file, load_text
 from .model import Diagnostic, Severity
 from .suppress import MARKER, apply_suppressions
 from .yamlsafe import Limits
 
-BUILTIN_CORE_RULES = {"format", "plugin-error", "suppression"}
+BUILTIN_CORE_RULES = set(CORE_RULE_NAMES)
 
 
 @dataclass

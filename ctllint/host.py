@@ -24,9 +24,8 @@ import pluggy
 from . import hookspecs
 from .api import CheckContext, Finding, OutputFormat, Rule
 from .kinds import DeviceKind, KindRegistry
+from .core_rules import CORE_RULE_NAMES as CORE_RULES
 from .model import Diagnostic, Location, Schematic, Severity
-
-CORE_RULES = ("format", "plugin-error")
 
 
 @dataclass

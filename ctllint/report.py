@@ -13,13 +13,18 @@ from typing import Iterable
 
 from . import __version__
 from .api import OutputFormat, Rule
+from .core_rules import CORE_RULES
 from .hookspecs import hookimpl
 from .model import Diagnostic, Severity
 
+# The one caution text: text output (standard error), the JSON, SARIF and
+# JUnit reports, --help, the HTML report and drawing legends all carry it.
 SAFETY_NOTE = (
-    "ctllint checks design rules only. Control circuits can injure people: "
-    "have every change reviewed by a qualified person and follow local electrical codes, "
-    "the machine's risk assessment and licensed practice."
+    "ctllint checks design rules only: a clean run is not proof that a circuit is safe. "
+    "Control circuits can injure or kill: have every change reviewed by a qualified person and "
+    "follow the electrical codes that apply where the machine is installed, the machine's risk "
+    "assessment and licensed practice. The rating tables are US (NEC, NEMA) and IEC figures, "
+    "partly from memory; other codes (CEC, local rules) may differ."
 )
 
 _COLOURS = {Severity.ERROR: "\033[31m", Severity.WARNING: "\033[33m", Severity.INFO: "\033[36m"}
@@ -53,17 +58,14 @@ def summary_line(diagnostics: list[Diagnostic], files: list[str]) -> str:
     return f"{', '.join(parts)} in {n} file{'s' * (n != 1)}"
 
 
-def render_json(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule]) -> str:
+def render_json(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule], note: str | None = SAFETY_NOTE) -> str:
     doc = {"diagnostics": [d.as_dict() for d in diagnostics], "files": len(files)}
+    if note:  # left out only where the safety note was turned off
+        doc["safety_note"] = note
     return json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
 
 
 _SARIF_LEVEL = {Severity.ERROR: "error", Severity.WARNING: "warning", Severity.INFO: "note"}
-_CORE_RULE_DOCS = {
-    "format": ("The file breaks the schematic format (FORMAT.md).", Severity.ERROR),
-    "plugin-error": ("A rule plugin failed to import, raised, or ran past its time limit.", Severity.ERROR),
-    "suppression": ("An inline suppression is malformed, lacks a reason, or suppresses nothing.", Severity.WARNING),
-}
 
 
 def _uri(path: str) -> str:
@@ -71,18 +73,11 @@ def _uri(path: str) -> str:
     return p[2:] if p.startswith("./") else p
 
 
-def render_sarif(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule]) -> str:
+def render_sarif(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule], note: str | None = SAFETY_NOTE) -> str:
     descriptors = []
     index: dict[str, int] = {}
-    for name, (summary, sev) in sorted(_CORE_RULE_DOCS.items()):
-        index[name] = len(descriptors)
-        descriptors.append({
-            "id": name,
-            "shortDescription": {"text": summary},
-            "defaultConfiguration": {"level": _SARIF_LEVEL[sev]},
-            "properties": {"plugin": "core"},
-        })
-    for name in sorted(rules):
+    rules = {**CORE_RULES, **dict(sorted(rules.items()))}  # the core rules first, as they always were
+    for name in rules:
         rule = rules[name]
         index[name] = len(descriptors)
         descriptors.append({
@@ -119,10 +114,12 @@ def render_sarif(diagnostics: list[Diagnostic], files: list[str], rules: dict[st
             "columnKind": "unicodeCodePoints",
         }],
     }
+    if note:  # a run's property bag (SARIF 2.1.0 3.8)
+        log["runs"][0]["properties"] = {"safetyNote": note}
     return json.dumps(log, indent=2, ensure_ascii=False) + "\n"
 
 
-def render_junit(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule]) -> str:
+def render_junit(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule], note: str | None = SAFETY_NOTE) -> str:
     # Imported here: xml.sax.saxutils pulls in urllib, http and ssl, a cost
     # every start-up would pay for a format few runs ask for.
     from xml.sax.saxutils import escape, quoteattr
@@ -134,6 +131,8 @@ def render_junit(diagnostics: list[Diagnostic], files: list[str], rules: dict[st
     out = ['<?xml version="1.0" encoding="UTF-8"?>',
            f'<testsuites name="ctllint" tests="{len(by_file)}" failures="{failing}">',
            f'  <testsuite name="ctllint" tests="{len(by_file)}" failures="{failing}" errors="0" skipped="0">']
+    if note:
+        out += ["    <properties>", f'      <property name="safety-note" value={quoteattr(note)}/>', "    </properties>"]
     for path in sorted(by_file):
         ds = by_file[path]
         out.append(f"    <testcase classname=\"ctllint\" name={quoteattr(path)}>")
@@ -151,9 +150,16 @@ def render_junit(diagnostics: list[Diagnostic], files: list[str], rules: dict[st
     return "\n".join(out) + "\n"
 
 
+def render_with_note(fmt: OutputFormat, diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule], note: str | None) -> str:
+    """Render with ``fmt``; the built-in machine formats carry ``note`` (None: turned off)."""
+    if fmt.render in (render_json, render_sarif, render_junit):
+        return fmt.render(diagnostics, files, rules, note=note)
+    return fmt.render(diagnostics, files, rules)
+
+
 FORMATS = [
     OutputFormat("text", render_text, "one line per finding: path:line:column: severity: message [rule]"),
-    OutputFormat("json", render_json, "one JSON object: diagnostics and the number of files"),
+    OutputFormat("json", render_json, "one JSON object: diagnostics, the number of files and the safety note"),
     OutputFormat("sarif", render_sarif, "SARIF 2.1.0 log for code-scanning tools"),
     OutputFormat("junit", render_junit, "JUnit XML: a test case per schematic, a failure per finding"),
 ]

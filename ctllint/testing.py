@@ -20,7 +20,10 @@ schematic and the findings it must give::
 A case's ``findings`` lists every finding the schematic gives, of every
 rule, as ``{rule, line}`` (``column`` optional), so a failing case proves
 both that the rule fires where it should and that nothing else fires. A
-case may list rules to leave out of the comparison under ``ignore``.
+case may list rules to leave out of the comparison under ``ignore``. A
+finding may also give ``message`` (text, or a list of texts, each of which
+the finding's message must contain) and ``message_not`` (texts it must not
+contain), for rules whose wording is part of what they must get right.
 Lines count from 1 at the first line of the ``schematic`` text.
 
 Use from pytest::
@@ -127,6 +130,15 @@ def check_case(case: Case, plugins: Iterable[Any] = ()) -> None:
         if "column" in f:
             match = [d for d in found if d.rule == f["rule"] and d.line == int(f["line"]) and d.column == int(f["column"])]
             assert match, f"case {case.id!r}: no {f['rule']} finding at {f['line']}:{f['column']}"
+        if "message" in f or "message_not" in f:
+            def texts(key):
+                value = f.get(key) or []
+                return [value] if isinstance(value, str) else list(value)
+
+            here = [d for d in found if d.rule == f["rule"] and d.line == int(f["line"])]
+            ok = [d for d in here if all(t in d.message for t in texts("message")) and not any(t in d.message for t in texts("message_not"))]
+            assert ok, (f"case {case.id!r}: no {f['rule']} finding at line {f['line']} whose message contains {texts('message')} "
+                        f"and none of {texts('message_not')}; messages: {[d.message for d in here]}")
 
 
 def load_schematic(text: str, path: str = "case.ctl.yaml"):

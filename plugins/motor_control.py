@@ -28,9 +28,14 @@ Choices where the catalogue leaves room:
   biconnected component once the loads are taken out) and the contact serves
   the coil. A NO contact of another coil the same start contact energizes
   counts too (the main contactor of a star-delta starter holds the star,
-  delta and timer coils started with it), unless that coil is a timer's:
-  timed contacts do not hold (an on-delay NO is still open when the button
-  is released, an off-delay NO stays closed after stop and restarts). The
+  delta and timer coils started with it). A timer's timed contacts never
+  seal, its own coil included (an on-delay NO is still open when the button
+  is released, an off-delay NO stays closed after stop and restarts); its
+  ``instant-NO`` does. A NO contact around the start that is no seal (a
+  timed contact, or a contact of a coil this button does not start) is
+  reported with what it really does: a timed contact drops out or restarts,
+  another starter's contact starts this coil whenever that one runs. The
+  advice for a timer names its ``instant-NO``, never a timed contact. The
   stop and overload contacts that must stay in series are the ones in series
   with the coil while its own NO contacts are open (the circuit as the start
   button sees it); so a seal wired around the stop as well as the start
@@ -51,7 +56,8 @@ Choices where the catalogue leaves room:
   chattering. The simulator is also run from rest, and a circuit that does
   not settle there is reported at the first coil that keeps switching, when
   no own-NC finding already covers it.
-- ``emergency-stop``: "its supply" is the supply of the loads its contacts
+- ``emergency-stop``: contactors and starters with a non-empty
+  ``estop_exempt`` reason are left out. "its supply" is the supply of the loads its contacts
   serve, and any supply with a contactor or starter it governs through a
   relay (a 24 VDC safety relay switching 120 VAC starters makes the 120 VAC
   starters its own). A coil is governed when every energizing path passes a
@@ -59,10 +65,22 @@ Choices where the catalogue leaves room:
   whose coil is governed (a master control relay, or a chain of them). The
   momentary, NO and governing problems of one device are given in one
   finding at its tag.
-- ``switch-fan-out`` counts the inductive loads a contact serves directly
-  (a relay coil it drives counts once, whatever that relay switches). The
-  two coils of an interlock pair count as one only where each has an NC
-  contact of the other on every energizing path.
+- ``switch-fan-out`` counts the power-inductive branches a contact makes:
+  coils of contactors and starters (those that feed the same motor or
+  heater are one branch, one starter assembly such as a wye-delta), solenoids
+  and horns; relay and timer coils are not counted, being the interposing
+  devices the rule asks for. Every NO contact (and selector position) makes,
+  and so does an NC contact of a maintained or process switch; the NC
+  contact of a momentary pushbutton (a stop) only breaks sealed current and
+  is not counted. Branches are grouped by the `feeds` field as written: a
+  wye-delta's contactors that do not name their motor count apart. "At
+  once": the count is the largest set of branches that can be made
+  together. Two loads are never made together when a third device's
+  contacts choose between them (every path of one passes its NC, of the
+  other its NO; or two positions of one selector: that device's state is
+  given when the switch closes), and the two coils of an interlock pair
+  count as one only where each has an NC contact of the other on every
+  energizing path (a one-sided interlock does not count).
 - A ``safety-relay`` module is governed by an emergency stop in its power
   or in either input channel (its NO safety outputs then count as governed
   contacts); for ``auto-restart`` its outputs can come on at power return
@@ -358,9 +376,12 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
                     start.loc,
                     f"start button {start.tag} ({start.text}) energizes coil {coil.text}, but no NO contact of {coil.tag} "
                     f"is wired around it: {coil.tag} drops out as soon as the button is released; add a seal-in "
-                    f"{coil.tag}.NO in parallel with {start.text}, or set jog: true on the rung if that is intended",
+                    f"{_seal_advice(ctx, coil.tag)} in parallel with {start.text}, or set jog: true on the rung if that is intended",
                     f"{start.text}@{coil.text}",
                 )
+                continue
+            if verdict == "wrong":
+                yield Finding(start.loc, _wrong_seal_message(ctx, start, coil, bypassed), f"{start.text}@{coil.text}")
                 continue
             if bypassed:
                 yield Finding(
@@ -370,6 +391,35 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
                     f"{' or '.join(c.tag for c in bypassed)} opens; wire the seal-in across {start.text} only",
                     f"{start.text}@{coil.text}",
                 )
+
+
+def _seal_advice(ctx: CheckContext, tag: str) -> str:
+    """The contact to suggest as the seal-in of ``tag``'s coil: never a timer's timed contact."""
+    if getattr(_device(ctx, tag), "kind", None) == "timer":
+        return f"{tag}.instant-NO (an instantaneous contact; its timed contacts do not seal)"
+    return f"{tag}.NO"
+
+
+def _wrong_seal_message(ctx: CheckContext, start: Element, coil: Element, wrong: list[Element]) -> str:
+    """What the contact wired around the start button really does, and what to wire instead."""
+    m = wrong[0]
+    dev = _device(ctx, m.tag)
+    fix = f"wire {_seal_advice(ctx, coil.tag)} across {start.text} as the seal-in"
+    head = f"the contact around start button {start.text} for coil {coil.text}, {_names(wrong)}, is no seal-in: "
+    if dev.kind == "timer":
+        if dev.get("delay") == "off":
+            q = dev.get("preset")
+            preset = f"{q.number:g} {q.unit}" if q is not None else "its preset"
+            what = (f"{m.text} is a timed contact of off-delay timer {m.tag}: it stays closed for {preset} after stop "
+                    f"drops {coil.tag}, so releasing stop within that time restarts {coil.tag}")
+        else:
+            what = (f"{m.text} is a timed contact of on-delay timer {m.tag}: it is still open when the button is "
+                    f"released, so {coil.tag} drops out then")
+        return head + what + "; " + fix
+    runs = "runs" if dev.kind in CONTACTOR_KINDS else "is energized"
+    return (head + f"{m.text} belongs to {m.tag}, which this button does not start: it starts {coil.tag} whenever "
+            f"{m.tag} {runs}, and does not hold {coil.tag} when {m.tag} is off; " + fix
+            + ", or set jog: true on the rung if the button only jogs")
 
 
 # ---------------------------------------------------------------------------
@@ -399,38 +449,157 @@ def _interlocked(ctx: CheckContext, coil: Element, other: str) -> bool:
     return bool(nc) and circuit.has_energizing_path(coil) and not circuit.has_energizing_path(coil, without=nc)
 
 
+INTERPOSING_KINDS = ("relay", "timer")  # their coils are what switch-fan-out asks for, not counted
+
+
+def _makes(dev, el: Element) -> bool:
+    """Whether closing contact ``el`` of mechanical switch ``dev`` can energize the loads it serves.
+
+    Every NO contact (and selector position) makes; an NC contact of a
+    maintained or process switch makes when the switch returns; the NC
+    contact of a momentary pushbutton (a stop) only breaks the sealed
+    current of what it stops, which contact-rating checks.
+    """
+    return not (el.part == "NC" and _is_momentary_pushbutton(dev))
+
+
+def _power_branches(ctx: CheckContext, loads: list[Element]) -> list[list[Element]]:
+    """The power-inductive branches among ``loads``, each a list of its loads, in file order.
+
+    Counted: coils of contactors and starters, solenoids, horns (any
+    inductive load but a relay's or timer's coil). Contactors and starters
+    that feed the same motor or heater are one branch (one starter assembly,
+    such as a wye-delta or a two-speed starter).
+    """
+    branches: dict[str, list[Element]] = {}
+    for load in loads:
+        dev = _device(ctx, load.tag)
+        if not load.inductive or (dev is not None and load.part == "coil" and dev.kind in INTERPOSING_KINDS):
+            continue
+        key = load.tag
+        if dev is not None and dev.kind in CONTACTOR_KINDS and dev.get("feeds"):
+            key = "feeds:" + dev.get("feeds")
+        branches.setdefault(key, []).append(load)
+    return list(branches.values())
+
+
+def _required_contacts(ctx: CheckContext, load: Element, cache: dict) -> set[tuple[str, str]]:
+    """(tag, part) of the contacts every energizing path of ``load`` passes (one of them at least)."""
+    if load.index not in cache:
+        circuit = ctx.circuit
+        out: set[tuple[str, str]] = set()
+        for tag, part in dict.fromkeys((e.tag, e.part) for e in circuit.serving(load) if e.role == "contact"):
+            same = [e for e in circuit.elements_of(tag) if e.role == "contact" and e.part == part]
+            if not circuit.has_energizing_path(load, without=same):
+                out.add((tag, part))
+        cache[load.index] = out
+    return cache[load.index]
+
+
+_CHANGEOVER = ({"NO", "NC"}, {"instant-NO", "instant-NC"})
+
+
+def _never_closed_together(ctx: CheckContext, tag: str, p: str, q: str) -> bool:
+    """Parts ``p`` and ``q`` of device ``tag`` are never closed at once (NO and NC; two selector positions)."""
+    if getattr(_device(ctx, tag), "kind", None) == "selector":
+        return p != q
+    return {p, q} in _CHANGEOVER
+
+
+def _exclusive(ctx: CheckContext, x: Element, y: Element, pairs: set[frozenset], cache: dict) -> bool:
+    """Loads ``x`` and ``y`` are never made at once.
+
+    Either a third device's contacts choose between them (x needs its NC, y
+    its NO: the device's state is given when the switch closes, so only one
+    is made), or they are an interlock pair with each coil through the
+    other's NC contact (RULES.md: the pair counts as one).
+    """
+    if frozenset((x.tag, y.tag)) in pairs and _interlocked(ctx, x, y.tag) and _interlocked(ctx, y, x.tag):
+        return True
+    need_y = _required_contacts(ctx, y, cache)
+    for tag, p in _required_contacts(ctx, x, cache):
+        if tag in (x.tag, y.tag):
+            continue
+        if any(t == tag and _never_closed_together(ctx, tag, p, q) for t, q in need_y):
+            return True
+    return False
+
+
+def _made_at_once(ctx: CheckContext, branches: list[list[Element]], pairs: set[frozenset], cache: dict) -> list[list[Element]]:
+    """The largest set of branches that can be made together (the first such set, in file order).
+
+    Two branches exclude each other when every load of one excludes every
+    load of the other. The branches of one contact are few; beyond 12 every
+    branch is counted (no search).
+    """
+    n = len(branches)
+    if n > 12:
+        return branches
+    apart = [[all(_exclusive(ctx, x, y, pairs, cache) for x in branches[i] for y in branches[j]) if i != j else False
+              for j in range(n)] for i in range(n)]
+    best: list[int] = []
+    for mask in range(1, 1 << n):
+        chosen = [i for i in range(n) if mask >> i & 1]
+        if len(chosen) <= len(best):
+            continue
+        if not any(apart[i][j] for i in chosen for j in chosen if i < j):
+            best = chosen
+    return [branches[i] for i in best]
+
+
 def check_switch_fan_out(ctx: CheckContext) -> Iterator[Finding]:
     circuit = ctx.circuit
     limit = ctx.options.get("max_inductive", 1)
-    pairs = _interlock_pairs(ctx)
+    pairs: set[frozenset] | None = None
+    cache: dict = {}
     for el in ctx.schematic.elements:
         dev = _device(ctx, el.tag)
-        if el.role != "contact" or not _is_mechanical(dev):
+        if el.role != "contact" or not _is_mechanical(dev) or not _makes(dev, el):
             continue
         loads = [x for x in circuit.served_loads(el) if x.inductive]
         if len(loads) <= limit:
             continue
-        count = len(loads)
-        merged: set[int] = set()
-        for a, b in pairs:
-            ca = [x for x in loads if x.tag == a and x.index not in merged]
-            cb = [x for x in loads if x.tag == b and x.index not in merged]
-            if ca and cb and _interlocked(ctx, ca[0], b) and _interlocked(ctx, cb[0], a):
-                merged.update((ca[0].index, cb[0].index))
-                count -= 1
-        if count <= limit:
+        branches = _power_branches(ctx, loads)
+        if len(branches) <= limit:
             continue
-        supply = circuit.supply_of(loads[0])
+        if pairs is None:
+            pairs = {frozenset(p) for p in _interlock_pairs(ctx)}
+        branches = _made_at_once(ctx, branches, pairs, cache)
+        if len(branches) <= limit:
+            continue
+        supply = circuit.supply_of(branches[0][0])
         on = f" on supply {supply.name}" if supply is not None else ""
+        shown = "; ".join(_names(b) for b in branches)
         yield Finding(
             el.loc,
-            f"contact {el.text} serves {len(loads)} inductive loads ({_names(loads)}){on}"
-            + (f", {count} counting each interlocked pair that is never on together as one" if count != len(loads) else "")
-            + f"; a mechanical switch should "
-            f"carry at most {limit}: it makes their summed inrush current, so drive one interposing relay instead",
+            f"contact {el.text} makes {len(branches)} power-inductive branches at once ({shown}){on}; "
+            f"a mechanical switch should make at most {limit}: it makes their summed inrush current, so drive "
+            f"one interposing relay instead",
             _subject(ctx, el),
         )
 
+
+def _sealing_contacts(ctx: CheckContext, tag: str) -> list[Element]:
+    """The contacts of ``tag`` that can seal: NO contacts, a timer's instantaneous NO only.
+
+    A timer's NO/NC are timed: an on-delay NO is still open when the button
+    is released, and an off-delay NO stays closed after stop is pressed and
+    restarts the coil. Its ``instant-NO`` follows the coil like a relay's.
+    """
+    if getattr(_device(ctx, tag), "kind", None) == "timer":
+        return _contacts(ctx, tag, "instant-NO")
+    return _contacts(ctx, tag, "NO")
+
+
+def _block_members(ctx: CheckContext, blocks: dict[int, int], keeps: dict) -> dict[int, list[Element]]:
+    """Block number -> its elements, built once per schematic (kept in ``keeps`` under None)."""
+    if None not in keeps:
+        members: dict[int, list[Element]] = {}
+        for el in ctx.schematic.elements:
+            if blocks.get(el.index) is not None:
+                members.setdefault(blocks[el.index], []).append(el)
+        keeps[None] = members
+    return keeps[None]
 
 
 def check_safety_relay_feedback(ctx: CheckContext) -> Iterator[Finding]:
@@ -466,22 +635,31 @@ def check_safety_relay_feedback(ctx: CheckContext) -> Iterator[Finding]:
 
 
 def _seal_verdict(ctx, circuit, blocks, keeps, start: Element, coil: Element):
-    """("missing" | "bypass" | "ok", contacts the seal bypasses, a path through the bypass)."""
+    """("missing" | "wrong" | "bypass" | "ok", the wrong seals or the contacts the seal bypasses, a path through the bypass)."""
     # The seal is a NO contact of the coil's own device or of another coil the
     # same start button energizes: in a star-delta starter or a starter with
-    # its timer, the main contactor's seal-in holds every coil started with it.
-    # Another device's timer does not count: its contacts are timed, so an
-    # on-delay NO has not closed when the button is released, and an
-    # off-delay NO stays closed after stop is pressed and restarts the coil.
-    started = [
-        load.tag
-        for load in circuit.served_loads(start)
-        if load.part == "coil" and load.tag != coil.tag and getattr(_device(ctx, load.tag), "kind", None) != "timer"
-    ]
-    candidates = _contacts(ctx, coil.tag, "NO") + [m for tag in dict.fromkeys(started) for m in _contacts(ctx, tag, "NO")]
-    seals = [m for m in candidates if blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)]
+    # its timer, the main contactor's seal-in holds every coil started with it
+    # (a timer's instantaneous NO too, never its timed one).
+    started = [load.tag for load in circuit.served_loads(start) if load.part == "coil" and load.tag != coil.tag]
+    candidates = [m for tag in dict.fromkeys([coil.tag, *started]) for m in _sealing_contacts(ctx, tag)]
+
+    def around_start(m: Element) -> bool:
+        return blocks.get(m.index) is not None and blocks.get(m.index) == blocks.get(start.index) and circuit.serves(m, coil)
+
+    seals = [m for m in candidates if around_start(m)]
     if not seals:
-        return "missing", [], None
+        # A NO contact of a coil around the start that is no seal: a timer's
+        # timed contact, or a contact of a device this button does not start.
+        wrong = [
+            m for m in _block_members(ctx, blocks, keeps).get(blocks.get(start.index), [])
+            if m.role == "contact" and m.part == "NO" and getattr(_device(ctx, m.tag), "kind", None) in COIL_KINDS
+            and m.tag not in started and around_start(m)
+        ]
+        wrong += [
+            m for tag in dict.fromkeys([coil.tag, *started]) if getattr(_device(ctx, tag), "kind", None) == "timer"
+            for m in _contacts(ctx, tag, "NO") if around_start(m) and m not in wrong
+        ]
+        return ("wrong", wrong, None) if wrong else ("missing", [], None)
     own_no = candidates
     coil_key = (coil.tag, coil.left, coil.right, start.tag, start.left, start.right)
     if coil_key not in keeps:
@@ -600,17 +778,26 @@ def check_emergency_stop(ctx: CheckContext) -> Iterator[Finding]:
                 supply = circuit.supply_of(coil) if coil.index in governed else None
                 if supply is not None and supply.name not in supplies and _device(ctx, coil.tag).kind in CONTACTOR_KINDS:
                     supplies.append(supply.name)
-            missed = []
+            missed: dict[str, list[Element]] = {}  # supply name -> coils it does not drop there
             for coil in _coil_loads(ctx):
                 coil_dev = _device(ctx, coil.tag)
                 supply = circuit.supply_of(coil)
-                if coil_dev.kind in CONTACTOR_KINDS and supply is not None and supply.name in supplies and coil.index not in governed and circuit.has_energizing_path(coil):
-                    missed.append(coil)
+                if coil_dev.kind not in CONTACTOR_KINDS or supply is None or supply.name not in supplies:
+                    continue
+                if coil.index in governed or not circuit.has_energizing_path(coil):
+                    continue
+                reason = coil_dev.get("estop_exempt")
+                if isinstance(reason, str) and reason.strip():
+                    continue  # left running on purpose, for the reason given (an empty one is a format error)
+                missed.setdefault(supply.name, []).append(coil)
             if missed:
+                # Each coil with its own supply: never a supply where nothing is missed.
+                where = "; ".join(f"{_names(coils)} on supply {name}" for name, coils in missed.items())
                 problems.append(
-                    f"it does not govern {_names(missed)} on supply {', '.join(supplies)} (each can be energized with "
+                    f"it does not govern {where} (each can be energized with "
                     f"{tag} pressed): put it in series with every "
-                    f"contactor and starter coil, directly or through a master control relay it drops"
+                    f"contactor and starter coil, directly or through a master control relay it drops, "
+                    f"or give a device that must stay on its reason in estop_exempt"
                 )
         if problems:
             yield Finding(dev.loc, f"emergency stop {tag}: " + "; ".join(problems), tag)
@@ -820,11 +1007,15 @@ RULES = [
             "coil a momentary start button's NO contact serves, unless the rung sets jog: true. Coils "
             "started together by the same button (the star, delta and timer coils of a star-delta "
             "starter, a starter and its run timer) may share one seal-in: a NO contact of any coil that "
-            "button energizes counts, as long as it bypasses only the start contact; a timer's contact "
-            "does not, since timed contacts do not hold the coil (an on-delay NO is still open when the "
-            "button is released, an off-delay NO stays closed after stop and restarts the coil)."
+            "button energizes counts, as long as it bypasses only the start contact.\n\n"
+            "A timer's timed contact never seals, not even its own coil: an on-delay NO is still open when "
+            "the button is released, so the coil drops out; an off-delay NO stays closed after stop and "
+            "restarts the coil when stop is released. Only a timer's instantaneous contact (instant-NO) "
+            "seals. A contact of another coil that this button does not start is no seal either: wired "
+            "around the start button it starts this coil whenever that one runs. The message says which "
+            "of these the wrong seal does, and the advice never suggests a timer's timed contact."
         ),
-        source="common practice (three-wire control, low-voltage protection); NFPA 79 7.5",
+        source="common practice (three-wire control, low-voltage protection; timed and instantaneous timer contacts); NFPA 79 7.5",
         check=check_seal_in,
         failing=Example("no seal-in", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n"),
         passing=Example("seal-in across the start button", _STARTER + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [2, M1.NO, 3]\n"),
@@ -832,19 +1023,28 @@ RULES = [
     Rule(
         name="switch-fan-out",
         severity=Severity.WARNING,
-        summary="a mechanical switch contact serves more inductive loads than max_inductive",
+        summary="a mechanical switch contact makes more power-inductive branches than max_inductive",
         doc=(
-            "A pushbutton, selector or process switch that switches several coils or solenoids at once makes "
-            "and breaks their summed inrush current, beyond what its small contacts are meant to carry, and "
-            "wears or welds. Drive one interposing relay instead, so the switch carries one coil current. "
-            "The two coils of an interlock pair count as one where each has the other's NC contact in "
-            "series, since they are then never on together."
+            "A pushbutton, selector or process switch that closes onto several contactor coils or solenoids "
+            "at once makes their summed inrush current, beyond what its small contacts are meant to carry, "
+            "and wears or welds. Drive one interposing relay instead, so the switch carries one coil current.\n\n"
+            "Counted are coils of contactors and starters, solenoids and horns; contactors and starters that "
+            "feed the same motor or heater are one branch (one starter assembly, such as the line, star and "
+            "delta contactors of a wye-delta starter). Relay and timer coils are not counted: they are the "
+            "interposing devices. A contact makes when its closing can energize the loads: every NO contact "
+            "and selector position, and the NC contact of a maintained or process switch (it makes when the "
+            "switch returns). The NC contact of a momentary pushbutton, a stop, only breaks the sealed current "
+            "of what it stops, which contact-rating checks, and is not counted.\n\n"
+            "Only branches made at once count: where a third device's NC and NO contacts choose between two "
+            "loads (a start-delay timer's NC to the warning horn and its NO to the starter), the switch makes "
+            "one of them. The two coils of an interlock pair count as one where each has the other's NC "
+            "contact in series, since they are then never on together."
         ),
-        source="common practice (a switch feeding several inductive loads carries their summed inrush)",
+        source="common practice (a switch making several inductive loads carries their summed inrush; relays interpose)",
         check=check_switch_fan_out,
         failing=Example("float switch drives two solenoids", "rungs:\n  - paths:\n      - [L1, FS1.NO, 2, SOL1, X2]\n      - [2, SOL2, X2]\n"),
         passing=Example("float switch drives one relay", "rungs:\n  - paths:\n      - [L1, FS1.NO, 2, CR1.coil, X2]\n      - [L1, CR1.NO, 3, SOL1, X2]\n      - [3, SOL2, X2]\n"),
-        options={"max_inductive": Option(1, "how many inductive loads one mechanical switch contact may serve", int, minimum=1)},
+        options={"max_inductive": Option(1, "how many power-inductive branches one mechanical switch contact may make", int, minimum=1)},
     ),
     Rule(
         name="interlock",
@@ -873,7 +1073,11 @@ RULES = [
             "control relay whose coil it drops and whose NO contacts are in series with the others. Where it "
             "drops starters on another supply through a relay (a 24 VDC safety relay switching 120 VAC "
             "starters), that supply's contactors and starters must all be governed too. An auxiliary NO that "
-            "only signals the button is pressed (to a PLC input or a light) is not an NO use."
+            "only signals the button is pressed (to a PLC input or a light) is not an NO use.\n\n"
+            "A contactor or starter whose device gives a reason in estop_exempt (a freeze-protection heater, "
+            "panel cooling: no motion hazard, and the risk assessment keeps it on) is left out (an empty "
+            "reason is a format error). The message names each coil that is not dropped with its own supply, "
+            "never a supply on which the emergency stop drops everything it must."
         ),
         source="NFPA 79 9.2.5.4 / IEC 60204-1 10.7 (emergency stop devices), ISO 13850",
         check=check_emergency_stop,

@@ -111,7 +111,7 @@ def test_json_shape_sorted_and_deterministic(project, capsys):
     (project / "faulty.ctl.yaml").write_text(FAULTY)
     code, out, _ = run(capsys, "check", "--format", "json")
     doc = json.loads(out)
-    assert set(doc) == {"diagnostics", "files"} and doc["files"] == 2
+    assert set(doc) == {"diagnostics", "files", "safety_note"} and doc["files"] == 2
     keys = [(d["path"], d["line"], d["column"], d["rule"]) for d in doc["diagnostics"]]
     assert keys == sorted(keys)
     for d in doc["diagnostics"]:
