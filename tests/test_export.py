@@ -16,6 +16,7 @@ import textwrap
 
 import pytest
 
+from ctllint.report import SAFETY_NOTE
 from ctllint.cli import main
 from ctllint.export import bom_rows, documents, export
 from ctllint.kinds import KindRegistry
@@ -197,7 +198,7 @@ def test_output_is_the_same_whatever_the_hash_seed(tmp_path):
         env = dict(os.environ, PYTHONHASHSEED=seed)
         run = subprocess.run([sys.executable, "-m", "ctllint", "export", "wires", str(path)], capture_output=True, text=True, env=env, check=True)
         outs.add(run.stdout)
-        assert "Control circuits can injure people" in run.stderr
+        assert SAFETY_NOTE in run.stderr
     assert len(outs) == 1
 
 
