@@ -24,6 +24,12 @@ from .report import SAFETY_NOTE, render_text, summary_line, use_colour
 
 EXIT_OK, EXIT_FINDINGS, EXIT_USAGE, EXIT_INTERNAL = 0, 1, 2, 3
 
+
+def exit_note(fail_on: Severity) -> str:
+    """What exit status 1 means, said beside the summary: a run that found mistakes did not fail to run."""
+    found = {Severity.ERROR: "errors", Severity.WARNING: "warnings or errors", Severity.INFO: "findings"}[fail_on]
+    return f"exit status 1: the check ran and found {found}"
+
 DESCRIPTION = """\
 Check motor-control and relay-logic schematics (*.ctl.yaml) against design
 rules: stop buttons normally closed and in series, overloads in every
@@ -230,8 +236,8 @@ def _run_check(args: argparse.Namespace) -> int:
     fail_on = Severity.parse(args.fail_on or cfg.fail_on or "error")
     failed = any(d.severity >= fail_on for d in diagnostics)
     if args.format == "text" or args.output:
-        tail = summary_line(diagnostics, result.files)
-        print(f"ctllint: {tail}", file=sys.stderr)
+        tail = summary_line(diagnostics, result.files, result.device_files)
+        print(f"ctllint: {tail}" + (f" ({exit_note(fail_on)})" if failed else ""), file=sys.stderr)
         if not result.files:
             print(f"ctllint: no *.ctl.yaml or *.ctl.yml files under {', '.join(paths)}", file=sys.stderr)
         if diagnostics:

@@ -24,7 +24,7 @@ from .host import PluginHost, RuleSettings
 from .loader import SCHEMATIC_SUFFIXES, find_repository_root
 from .model import Diagnostic, Severity
 
-CACHE_FORMAT = 1
+CACHE_FORMAT = 2  # 2: entries say whether the file is a shared device file
 
 
 @dataclass
@@ -33,6 +33,7 @@ class RunResult:
     files: list[str]
     missing: list[str] = field(default_factory=list)
     cached: int = 0
+    device_files: int = 0  # how many of ``files`` are shared device files, not schematics
 
 
 def default_cache_dir() -> str:
@@ -98,7 +99,7 @@ class ResultCache:
             if _digest(used) != digest:
                 return None
         diags = [Diagnostic(d["path"], d["line"], d["column"], d["rule"], Severity(d["severity"]), d["message"], d.get("subject", "")) for d in data["diagnostics"]]
-        return FileResult(target.shown, diags, [u for u, _ in data.get("used", [])], data.get("loaded", True))
+        return FileResult(target.shown, diags, [u for u, _ in data.get("used", [])], data.get("loaded", True), data.get("device_file", False))
 
     def put(self, target: Target, digest: str | None, result: FileResult) -> None:
         if digest is None or any(d.rule == "plugin-error" for d in result.diagnostics):
@@ -107,6 +108,7 @@ class ResultCache:
             "digest": digest,
             "used": [[u, _digest(u)] for u in result.used_files],
             "loaded": result.loaded,
+            "device_file": result.device_file,
             "diagnostics": [{"path": d.path, "line": d.line, "column": d.column, "rule": d.rule, "severity": int(d.severity), "message": d.message, "subject": d.subject} for d in result.diagnostics],
         }
         entry = self._entry_path(target)
@@ -235,4 +237,5 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     diagnostics: set[Diagnostic] = set()
     for r in results.values():
         diagnostics.update(r.diagnostics)
-    return RunResult(sorted(diagnostics), [t.shown for t in targets], cached=cached)
+    return RunResult(sorted(diagnostics), [t.shown for t in targets], cached=cached,
+                     device_files=sum(1 for r in results.values() if r.device_file))

@@ -4,15 +4,16 @@ from __future__ import annotations
 import argparse
 import difflib
 import os
+import pathlib
 import shutil
 import sys
 
-from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, command, settings_for, setup, split_names, write_output
+from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, exit_note, add_config_args, command, settings_for, setup, split_names, write_output
 from ..discover import discover, display_path
 from ..engine import Checker
 from ..loader import LoadResult, load_file
 from ..model import Diagnostic, Location, Scenario, Schematic, Severity, Step
-from ..report import SAFETY_NOTE, render_text
+from ..report import SAFETY_NOTE, render_text, summary_line
 
 # -- shared -------------------------------------------------------------------------
 
@@ -167,11 +168,14 @@ def _run_report(args: argparse.Namespace) -> int:
     write_output(render_html(files, args.title, changes), args.output)
     every = [d for f in files for d in f.diagnostics]
     fail_on = Severity.parse(args.fail_on or cfg.fail_on or "error")
+    failed = any(d.severity >= fail_on for d in every)
     if args.output:
-        counts = {s: sum(1 for d in every if d.severity == s) for s in Severity}
-        print(f"ctllint: wrote {args.output}: {len(files)} file(s), {counts[Severity.ERROR]} error(s), "
-              f"{counts[Severity.WARNING]} warning(s), {counts[Severity.INFO]} info", file=sys.stderr)
-    return EXIT_FINDINGS if any(d.severity >= fail_on for d in every) else EXIT_OK
+        device_files = sum(1 for f in files if f.schematic is not None and f.schematic.device_file)
+        tail = summary_line(every, [f.path for f in files], device_files)
+        print(f"ctllint: wrote {args.output}: {tail}" + (f" ({exit_note(fail_on)})" if failed else ""), file=sys.stderr)
+        if os.path.isfile(args.output):
+            print(f"ctllint: open it in a web browser: {pathlib.Path(os.path.abspath(args.output)).as_uri()}", file=sys.stderr)
+    return EXIT_FINDINGS if failed else EXIT_OK
 
 
 def _repo_rel(path: str, top: str) -> str | None:
