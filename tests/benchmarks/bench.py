@@ -57,7 +57,7 @@ def ctllint(*args: str) -> list[str]:
 
 
 def main() -> None:
-    parser = argparse.ArgumentParser(description=__doc__)
+    parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--quick", action="store_true", help="fewer repeats and smaller parallel set")
     parser.add_argument("--repeats", type=int, default=None)
     args = parser.parse_args()
