@@ -329,6 +329,13 @@ class _Loader:
 
     def unknown_key(self, knode: Node, key: str, where: str, allowed: tuple[str, ...]) -> None:
         hint = _closest(key, allowed)
+        if hint is None:  # text cut off by a comma in a {...} mapping (FORMAT.md, "Additions"): say to quote it
+            from .yamlhints import comma_in_text
+
+            cut = comma_in_text(self.source, knode.line, knode.column)
+            if cut:
+                self.error(knode, f"{cut} (in {where})")
+                return
         self.error(knode, f"unknown key '{key}' in {where}" + (f" (did you mean '{hint}'?)" if hint else f"; allowed: {', '.join(allowed)}"))
 
     # -- the file ------------------------------------------------------
