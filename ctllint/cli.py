@@ -92,6 +92,11 @@ def add_config_args(p: argparse.ArgumentParser) -> None:
     p.add_argument("--config", metavar="FILE", help="configuration file (default: .ctllint.yaml or [tool.ctllint] in pyproject.toml, found by walking up from the current folder)")
 
 
+def add_quiet_arg(p: argparse.ArgumentParser) -> None:
+    p.add_argument("-q", "--quiet", action="store_true",
+                   help="no progress line on a long run (it shows only on a terminal, never in pipes, CI or with NO_COLOR set)")
+
+
 def setup(args: argparse.Namespace) -> tuple[Config, PluginHost]:
     path = getattr(args, "config", None)
     if path is not None and not os.path.isfile(path):
@@ -195,6 +200,7 @@ def _configure_check(p: argparse.ArgumentParser) -> None:
     p.add_argument("--fail-on", choices=("error", "warning", "info"), help="lowest severity that makes the exit status 1 (default: error)")
     p.add_argument("-j", "--jobs", type=int, metavar="N", help="check files in N processes (default: the number of cores)")
     p.add_argument("--no-cache", action="store_true", help="do not read or write the result cache")
+    add_quiet_arg(p)
     p.add_argument("--baseline", metavar="FILE", help="report only findings not recorded in this baseline")
     p.add_argument("--write-baseline", metavar="FILE", help="record today's findings in FILE and exit 0")
     add_config_args(p)
@@ -210,7 +216,10 @@ def _run_check(args: argparse.Namespace) -> int:
     if args.jobs is not None and args.jobs < 1:
         raise UsageError("ctllint: --jobs must be at least 1")
     paths = args.paths or ["."]
-    result = run_check(paths, cfg, host, settings, jobs=args.jobs, use_cache=not args.no_cache)
+    from .progress import Meters
+
+    with Meters(args.quiet) as meters:
+        result = run_check(paths, cfg, host, settings, jobs=args.jobs, use_cache=not args.no_cache, progress=meters.start)
     if result.missing:
         raise UsageError("ctllint: " + "; ".join(f"path '{m}' does not exist" for m in result.missing))
     diagnostics = result.diagnostics

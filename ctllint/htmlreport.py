@@ -23,6 +23,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from html import escape
+from typing import Any
 
 from . import __version__
 from .diff import ADDED, APPEARED, CHANGED, MOVED, REMOVED, ElementDiff, RungDiff, SchematicDiff, ValueChange, changed_rungs
@@ -129,8 +130,10 @@ footer{color:#5c6670;padding-bottom:32px;font-size:13px}
 """
 
 
-def render_html(files: list[FileReport], title: str = "ctllint report", changes: Changes | None = None) -> str:
-    """The report page for ``files`` (in the order given), with a changes section when ``changes`` is given."""
+def render_html(files: list[FileReport], title: str = "ctllint report", changes: Changes | None = None,
+                progress: Any = None) -> str:
+    """The report page for ``files`` (in the order given), with a changes section when ``changes`` is given;
+    ``progress.advance(1)`` is called as each file is drawn."""
     css = CSS
     for sev, colour in SEVERITY_COLOUR.items():
         css += f".sev-{sev}{{color:{colour}}}\n.badge.sev-{sev}{{border-color:{colour};background:{SEVERITY_TINT[sev]}}}\n"
@@ -192,6 +195,8 @@ def render_html(files: list[FileReport], title: str = "ctllint report", changes:
         out.extend(_changes_section(changes, files, index_of))
     for i, f in enumerate(files, 1):
         out.extend(_file_section(i, f, changes.since if f.path in change_of else None))
+        if progress is not None:
+            progress.advance(1)
     out += [
         "</main>",
         f'<footer><p>{escape(SAFETY_NOTE)}</p><p>Made by ctllint {escape(__version__)}. '

@@ -15,6 +15,7 @@ import stat
 import sys
 import tempfile
 from dataclasses import asdict, dataclass, field
+from typing import Any, Callable
 
 from . import __version__
 from .config import Config
@@ -177,7 +178,14 @@ def _is_device_file(path: str) -> bool:
     return "devices" in keys and not keys & {"supplies", "rungs", "use", "expect"}
 
 
-def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSettings, jobs: int | None = None, use_cache: bool = True) -> RunResult:
+def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSettings, jobs: int | None = None, use_cache: bool = True,
+              progress: Callable[[int], Any] | None = None) -> RunResult:
+    """Check every schematic under ``paths``.
+
+    ``progress``, when given, is called once with the number of files found
+    and returns a meter whose ``advance(n)`` is called as n more are done
+    (``ctllint.progress.Progress``); the caller closes it.
+    """
     base = cfg.folder if cfg.path else None
     targets, missing = discover(paths, cfg.exclude, base)
     if missing:
@@ -203,10 +211,13 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     results: dict[int, FileResult] = {}
     todo: list[int] = []
     digests: dict[int, str | None] = {}
+    meter = progress(len(targets)) if progress else None
     for i, t in enumerate(targets):
         hit = cache.get(t) if cache else None
         if hit is not None:
             results[i] = hit
+            if meter:
+                meter.advance(1)
         else:
             todo.append(i)
             if cache:
@@ -225,11 +236,17 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
         context = multiprocessing.get_context("fork")
         with ProcessPoolExecutor(max_workers=min(jobs, len(todo)), mp_context=context, initializer=_worker_init, initargs=(checker,)) as pool:
             chunk = max(1, len(todo) // (jobs * 4))
+            if meter:  # results come back a chunk at a time: smaller chunks keep the count moving
+                chunk = min(chunk, 8)
             for i, result in zip(todo, pool.map(_check_one, [targets[i] for i in todo], chunksize=chunk)):
                 results[i] = result
+                if meter:
+                    meter.advance(1)
     else:
         for i in todo:
             results[i] = checker.check_file(targets[i].path, display_path=targets[i].shown)
+            if meter:
+                meter.advance(1)
     if cache:
         for i in todo:
             cache.put(targets[i], digests.get(i), results[i])

@@ -8,7 +8,7 @@ import pathlib
 import shutil
 import sys
 
-from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, exit_note, add_config_args, command, settings_for, setup, split_names, write_output
+from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, exit_note, add_config_args, add_quiet_arg, command, settings_for, setup, split_names, write_output
 from ..discover import discover, display_path
 from ..engine import Checker
 from ..loader import LoadResult, load_file
@@ -140,6 +140,7 @@ def _configure_report(p: argparse.ArgumentParser) -> None:
     p.add_argument("-o", "--output", metavar="report.html", help="write the page to this file (atomically) instead of standard output")
     p.add_argument("--title", default="ctllint report", help="the page's heading (default: %(default)s)")
     p.add_argument("--fail-on", choices=("error", "warning", "info"), help="lowest severity that makes the exit status 1 (default: error)")
+    add_quiet_arg(p)
     p.add_argument("--changes-since", metavar="REV",
                    help="add a 'Changes since REV' section: what changed in each schematic since git revision REV "
                         "(e.g. HEAD~1, main, a tag), with each changed rung drawn before and after; needs git")
@@ -158,14 +159,21 @@ def _run_report(args: argparse.Namespace) -> int:
     base = _git_base(args.changes_since, targets) if args.changes_since is not None else None
     checker = Checker(host, settings, cfg.limits)
     files = []
-    for t in targets:
-        result = checker.check_file(t.path, display_path=t.shown)
-        loaded = load_file(t.path, host.kinds, cfg.limits, checker.device_cache, display_path=t.shown)
-        files.append(FileReport(t.shown, loaded.schematic, result.diagnostics))
-    changes = None
-    if base is not None:
-        changes = _changes_since(args.changes_since, base, targets, files, checker, cfg, args.paths or ["."])
-    write_output(render_html(files, args.title, changes), args.output)
+    from ..progress import Meters
+
+    with Meters(args.quiet) as meters:  # on a terminal: files checked, then files drawn, of the total
+        meter = meters.start(len(targets)) if meters.start else None
+        for t in targets:
+            result = checker.check_file(t.path, display_path=t.shown)
+            loaded = load_file(t.path, host.kinds, cfg.limits, checker.device_cache, display_path=t.shown)
+            files.append(FileReport(t.shown, loaded.schematic, result.diagnostics))
+            if meter:
+                meter.advance(1)
+        changes = None
+        if base is not None:
+            changes = _changes_since(args.changes_since, base, targets, files, checker, cfg, args.paths or ["."])
+        page = render_html(files, args.title, changes, progress=meters.start(len(files), "drew") if meters.start else None)
+    write_output(page, args.output)
     every = [d for f in files for d in f.diagnostics]
     fail_on = Severity.parse(args.fail_on or cfg.fail_on or "error")
     failed = any(d.severity >= fail_on for d in every)

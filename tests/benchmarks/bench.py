@@ -35,6 +35,35 @@ def best(cmd: list[str], repeats: int, env: dict | None = None, cwd: str | None 
     return min(times)
 
 
+def best_tty(cmd: list[str], repeats: int, env: dict) -> tuple[float, bytes]:
+    """As ``best``, with standard error on a pseudo-terminal (where ctllint shows progress);
+    also what the terminal received on the last run."""
+    import pty
+
+    times, seen = [], b""
+    for _ in range(repeats):
+        master, slave = pty.openpty()
+        t = time.perf_counter()
+        proc = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=slave, env=env)
+        os.close(slave)
+        chunks = []
+        while True:
+            try:
+                data = os.read(master, 65536)
+            except OSError:  # EIO: the process closed the terminal
+                break
+            if not data:
+                break
+            chunks.append(data)
+        proc.wait()
+        times.append(time.perf_counter() - t)
+        os.close(master)
+        seen = b"".join(chunks)
+        if proc.returncode not in (0, 1):
+            raise SystemExit(f"{' '.join(cmd)} exited {proc.returncode}:\n{seen.decode(errors='replace')[-2000:]}")
+    return min(times), seen
+
+
 def in_process(path: str, repeats: int) -> float:
     """Best time to check ``path`` (load, analyses, every rule) in a process already started."""
     code = (
@@ -121,6 +150,17 @@ def main() -> None:
     t_j1 = best(ctllint("check", "--no-cache", "-j", "1", folder), max(1, repeats - 1), env=nocache)
     t_j2 = best(ctllint("check", "--no-cache", "-j", "2", folder), max(1, repeats - 1), env=nocache)
     rows.append((f"parallel: {count} files x 50 circuits, 2 jobs / 1 job", f"{t_j2:.3f} s / {t_j1:.3f} s", f"{t_j2 / t_j1:.2f}", "<= 0.65"))
+
+    # Progress on a terminal (NO_COLOR unset): what showing it costs at start-up and on a long run.
+    tty_env = {k: v for k, v in nocache.items() if k not in ("NO_COLOR", "CI")}
+    tty_env.setdefault("TERM", "xterm")
+    t_one_tty, _ = best_tty(ctllint("check", "--no-cache", "-j", "1", one), repeats * 2, tty_env)
+    t_one_pipe = best(ctllint("check", "--no-cache", "-j", "1", one), repeats * 2, env=tty_env)
+    rows.append(("start-up on a terminal: check 1 circuit, stderr a terminal / a pipe", f"{t_one_tty:.3f} s / {t_one_pipe:.3f} s", f"{t_one_tty / t_one_pipe:.2f}", "<= 1.05"))
+    t_many_tty, seen = best_tty(ctllint("check", "--no-cache", "-j", "2", folder), max(1, repeats - 1), tty_env)
+    t_many_pipe = best(ctllint("check", "--no-cache", "-j", "2", folder), max(1, repeats - 1), env=tty_env)
+    updates = seen.count(b" files, ")
+    rows.append((f"progress: {count} files, 2 jobs, terminal ({updates} updates) / pipe", f"{t_many_tty:.3f} s / {t_many_pipe:.3f} s", f"{t_many_tty / t_many_pipe:.2f}", "<= 1.05"))
 
     # Memory: the peak resident set of `ctllint check` (as the console script runs it, through
     # ctllint._entry) on the 1,000-circuit file, less the same for the one-circuit file: what
