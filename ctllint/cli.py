@@ -30,6 +30,7 @@ def exit_note(fail_on: Severity) -> str:
     found = {Severity.ERROR: "errors", Severity.WARNING: "warnings or errors", Severity.INFO: "findings"}[fail_on]
     return f"exit status 1: the check ran and found {found}"
 
+
 DESCRIPTION = """\
 Check motor-control and relay-logic schematics (*.ctl.yaml) against design
 rules: stop buttons normally closed and in series, overloads in every
