@@ -83,6 +83,12 @@ def _plural(n: int, word: str) -> str:
     return f"{n} {word}{'' if n == 1 or word == 'info' else 's'}"
 
 
+def _files_checked(files: list[FileReport]) -> str:
+    """``4 schematics, 1 device file``: shared device files counted apart, as the command line's summary does."""
+    device_files = sum(1 for f in files if f.schematic is not None and f.schematic.device_file)
+    return _plural(len(files) - device_files, "schematic") + (f", {_plural(device_files, 'device file')}" if device_files else "")
+
+
 def _badges(counts: dict[Severity, int]) -> str:
     if not any(counts.values()):
         return '<span class="badge clean">no findings</span>'
@@ -156,7 +162,7 @@ def render_html(files: list[FileReport], title: str = "ctllint report", changes:
         "<body>",
         "<header>",
         f"<h1>{escape(title)}</h1>",
-        f'<p class="meta">{_plural(len(files), "file")} checked \u00b7 '
+        f'<p class="meta">{_files_checked(files)} checked \u00b7 '
         f'{_plural(total[Severity.ERROR], "error")}, {_plural(total[Severity.WARNING], "warning")}, {_plural(total[Severity.INFO], "info")}'
         + (f" \u00b7 changes since {escape(changes.since)}" if changes else "")
         + f" \u00b7 ctllint {escape(__version__)}</p>",

@@ -77,6 +77,7 @@ def test_report_summary_counts_apart_and_names_the_page(plant, capsys):
     err = capsys.readouterr().err
     assert "wrote plant.html: 1 error, 0 warnings, 0 info in 2 schematics, 1 device file (exit status 1:" in err
     assert (plant / "plant.html").as_uri() in err
+    assert '<p class="meta">2 schematics, 1 device file checked' in (plant / "plant.html").read_text()
 
 
 def _scripts_the_docs_name():
