@@ -330,9 +330,12 @@ class _Loader:
     def unknown_key(self, knode: Node, key: str, where: str, allowed: tuple[str, ...]) -> None:
         hint = _closest(key, allowed)
         if hint is None:  # text cut off by a comma in a {...} mapping (FORMAT.md, "Additions"): say to quote it
-            from .yamlhints import comma_in_text
+            from .yamlhints import comma_in_text, lines_of
 
-            cut = comma_in_text(self.source, knode.line, knode.column)
+            if getattr(self, "_hint_lines", None) is None:  # split once per file, however many such keys
+                self._hint_lines = lines_of(self.source)
+            lines = self._hint_lines
+            cut = comma_in_text(lines[knode.line - 1] if 0 < knode.line <= len(lines) else "", knode.column)
             if cut:
                 self.error(knode, f"{cut} (in {where})")
                 return

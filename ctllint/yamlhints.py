@@ -212,10 +212,15 @@ def explain(text: str, problem: str, line: int, col: int, context: str | None = 
     return line, col, f"YAML: {problem}"
 
 
-def comma_in_text(text: str, line: int, col: int) -> str | None:
-    """When the key at (line, col) is text cut off by a comma from the unquoted
-    value before it in a flow mapping, the message that says so; else None."""
-    raw = _line(_lines(text), line)
+def lines_of(text: str) -> list[str]:
+    """The lines of ``text`` as the parser counts them (for ``comma_in_text``)."""
+    return _lines(text)
+
+
+def comma_in_text(raw: str, col: int) -> str | None:
+    """When the key at 1-based column ``col`` of the line ``raw`` is text cut off by
+    a comma from the unquoted value before it in a flow mapping, the message that
+    says so; else None."""
     masked = _masked(raw)
     before = masked[:col - 1].rstrip()
     if not before.endswith(","):

@@ -113,7 +113,22 @@ def test_other_yaml_errors_keep_the_parsers_words():
 def test_a_misspelt_key_after_a_comma_keeps_did_you_mean():
     _, _, message = _one(HEAD + "  CR1: {kind: relay, coil: 120 VAC, supressed}\n" + RUNG)
     assert message == "unknown key 'supressed' in relay CR1 (did you mean 'suppressed'?)"
-    assert comma_in_text("  CR1: {kind: relay, setpoint: a, b c: d}", 1, 35) is None  # `b c: d` is written as a key
+    assert comma_in_text("  CR1: {kind: relay, setpoint: a, b c: d}", 35) is None  # `b c: d` is written as a key
+    assert comma_in_text("  CR1: {kind: relay, setpoint: a, b c}", 35).startswith("'b c' reads as a key")
+
+
+def test_many_cut_off_keys_split_the_file_once(monkeypatch):
+    """A file of 2,000 devices each with a cut-off text is split into lines once, not once per key
+    (a hostile file of many such keys would otherwise cost the file's size times their number)."""
+    import ctllint.yamlhints as hints
+
+    splits = []
+    real = hints._lines
+    monkeypatch.setattr(hints, "_lines", lambda text: splits.append(len(text)) or real(text))
+    body = "".join(f"  FS{i}: {{kind: float-switch, setpoint: OFF float, closes above {i} ft}}\n" for i in range(2_000))
+    result = load_text(HEAD + body + RUNG, "t.ctl.yaml")
+    assert len(result.diagnostics) == 2_000 and all("quote the whole text" in d.message for d in result.diagnostics)
+    assert len(splits) == 1
 
 
 def test_every_cut_off_piece_of_text_says_to_quote_the_whole():
