@@ -332,10 +332,12 @@ class _Loader:
         if hint is None:  # text cut off by a comma in a {...} mapping (FORMAT.md, "Additions"): say to quote it
             from .yamlhints import comma_in_text, lines_of
 
-            if getattr(self, "_hint_lines", None) is None:  # split once per file, however many such keys
-                self._hint_lines = lines_of(self.source)
-            lines = self._hint_lines
-            cut = comma_in_text(lines[knode.line - 1] if 0 < knode.line <= len(lines) else "", knode.column)
+            state = getattr(self, "_hints", None)
+            if state is None:  # the file split once, however many such keys; at most 50 hints a file,
+                state = self._hints = [lines_of(self.source), 50]  # each reads its whole line
+            lines = state[0]
+            state[1] -= 1
+            cut = state[1] >= 0 and comma_in_text(lines[knode.line - 1] if 0 < knode.line <= len(lines) else "", knode.column)
             if cut:
                 self.error(knode, f"{cut} (in {where})")
                 return

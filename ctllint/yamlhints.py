@@ -31,6 +31,7 @@ _NO_SPACE = re.compile(rf"({_KEY}):(?=[^\s:/])")
 # A key and its value on the same line, at the start of an entry: `title: Pump`.
 _KEY_VALUE = re.compile(rf"({_KEY}):[ \t]+(?=\S)")
 _NAMES = {"[": ("list", "]"), "{": ("mapping", "}")}
+_LONG = 2000  # characters: a longer line gets no hint (see _masked)
 _FREE_TEXT = {"setpoint", "estop_exempt", "title", "name"}  # fields whose value is words, not a code
 
 
@@ -44,7 +45,11 @@ def _line(lines: list[str], line: int) -> str:
 
 def _masked(line: str) -> str:
     """``line`` with quoted text and a comment blanked out (same length), so
-    brackets, commas and colons inside them are not taken for structure."""
+    brackets, commas and colons inside them are not taken for structure.
+    A line longer than anyone writes by hand is all blank: no hint is given
+    from it, and a hostile file's one huge line costs no time here."""
+    if len(line) > _LONG:
+        return " " * len(line)
     out = list(line)
     i, n = 0, len(line)
     while i < n:
@@ -143,7 +148,7 @@ def _unclosed(lines: list[str], cline: int, ccol: int, line: int, col: int, prob
     """The '[' or '{' at (cline, ccol) is not closed on its own line, and the parser met trouble later."""
     masked = _masked(_line(lines, cline))
     opener = masked[ccol - 1:ccol]
-    if opener not in _NAMES:
+    if opener not in _NAMES:  # a blanked long line has no opener either
         return None
     depth = 0
     for c in masked[ccol - 1:]:

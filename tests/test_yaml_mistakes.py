@@ -127,8 +127,10 @@ def test_many_cut_off_keys_split_the_file_once(monkeypatch):
     monkeypatch.setattr(hints, "_lines", lambda text: splits.append(len(text)) or real(text))
     body = "".join(f"  FS{i}: {{kind: float-switch, setpoint: OFF float, closes above {i} ft}}\n" for i in range(2_000))
     result = load_text(HEAD + body + RUNG, "t.ctl.yaml")
-    assert len(result.diagnostics) == 2_000 and all("quote the whole text" in d.message for d in result.diagnostics)
-    assert len(splits) == 1
+    assert len(result.diagnostics) == 2_000 and len(splits) == 1
+    # the first 50 say to quote; past that (a hostile file) the plain message, each at its key
+    assert sum("quote the whole text" in d.message for d in result.diagnostics) == 50
+    assert all(d.column == 49 + len(str(d.line - 5)) for d in result.diagnostics)  # where "closes" starts
 
 
 def test_every_cut_off_piece_of_text_says_to_quote_the_whole():
@@ -151,3 +153,14 @@ def test_explain_never_fails(text, line, col, problem, opened):
     cline, ccol = opened if opened else (None, None)
     got = explain(text, problem, line, col, "while scanning a quoted scalar" if opened and line % 2 else None, cline, ccol)
     assert isinstance(got[0], int) and isinstance(got[1], int) and problem in got[2]
+
+
+def test_a_line_longer_than_anyone_writes_gets_no_hint():
+    """A hostile file's one huge line is not read character by character for a hint (bounded time)."""
+    line = "  FS1: {kind: float-switch, setpoint: a" + "".join(f", k{i}: v" for i in range(400)) + ", x: y: z}"
+    assert len(line) > 2000
+    text = HEAD + line + "\n" + RUNG
+    got = explain(text, "did not find expected ',' or '}'", 5, len(line) - 4, "while parsing a flow mapping", 5, 8)
+    assert got == (5, len(line) - 4, "YAML: did not find expected ',' or '}'")
+    short = HEAD + "  FS1: {kind: float-switch, setpoint: a, x: y: z}\n" + RUNG
+    assert "quote the whole text" in explain(short, "did not find expected ',' or '}'", 5, 46, "while parsing a flow mapping", 5, 8)[2]
