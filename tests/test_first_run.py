@@ -1,6 +1,9 @@
-"""What a newcomer sees on a first run: the summary counts schematics and
-shared device files apart, and says what exit status 1 means."""
+"""What a newcomer sees on a first run: the README's two set-up commands
+(the first run as written on a fresh copy; .ci/run runs the second), a
+summary that counts schematics and shared device files apart and says what
+exit status 1 means, and scripts that answer --help."""
 import os
+import sys
 import textwrap
 
 import pytest
@@ -164,7 +167,7 @@ def test_readme_first_command_on_a_fresh_copy(tmp_path):
     shutil.copytree(ROOT, copy, ignore=shutil.ignore_patterns(".git", ".venv", ".ci", "build", "*.egg-info", "__pycache__",
                                                                 ".pytest_cache", ".hypothesis", "demo-report.html"))
     env = {k: v for k, v in os.environ.items() if k not in ("VIRTUAL_ENV", "PYTHONPATH", "NO_COLOR")}
-    venv_bin = os.path.dirname(os.path.abspath(os.sys.executable))
+    venv_bin = os.path.dirname(os.path.abspath(sys.executable))
     env["PATH"] = os.pathsep.join(p for p in env.get("PATH", "").split(os.pathsep) if os.path.abspath(p) != venv_bin)
     env["XDG_CACHE_HOME"] = str(tmp_path / "cache")
     proc = subprocess.run(["sh", "-c", demo], cwd=copy, env=env, capture_output=True, text=True, timeout=900)
