@@ -24,6 +24,13 @@ from .report import SAFETY_NOTE, render_text, render_with_note, summary_line, us
 
 EXIT_OK, EXIT_FINDINGS, EXIT_USAGE, EXIT_INTERNAL = 0, 1, 2, 3
 
+
+def exit_note(fail_on: Severity) -> str:
+    """What exit status 1 means, said beside the summary: a run that found mistakes did not fail to run."""
+    found = {Severity.ERROR: "errors", Severity.WARNING: "warnings or errors", Severity.INFO: "findings"}[fail_on]
+    return f"exit status 1: the check ran and found {found}"
+
+
 DESCRIPTION = """\
 Check motor-control and relay-logic schematics (*.ctl.yaml) against design
 rules: stop buttons normally closed and in series, overloads in every
@@ -84,6 +91,11 @@ def build_parser() -> argparse.ArgumentParser:
 
 def add_config_args(p: argparse.ArgumentParser) -> None:
     p.add_argument("--config", metavar="FILE", help="configuration file (default: .ctllint.yaml or [tool.ctllint] in pyproject.toml, found by walking up from the current folder)")
+
+
+def add_quiet_arg(p: argparse.ArgumentParser) -> None:
+    p.add_argument("-q", "--quiet", action="store_true",
+                   help="no progress line on a long run (it shows only on a terminal, never in pipes, CI or with NO_COLOR set)")
 
 
 def add_plugins_arg(p: argparse.ArgumentParser) -> None:
@@ -223,6 +235,7 @@ def _configure_check(p: argparse.ArgumentParser) -> None:
     p.add_argument("--fail-on", choices=("error", "warning", "info"), help="lowest severity that makes the exit status 1 (default: error)")
     p.add_argument("-j", "--jobs", type=int, metavar="N", help="check files in N processes (default: the number of cores)")
     p.add_argument("--no-cache", action="store_true", help="do not read or write the result cache")
+    add_quiet_arg(p)
     p.add_argument("--baseline", metavar="FILE", help="report only findings not recorded in this baseline")
     p.add_argument("--write-baseline", metavar="FILE", help="record today's findings in FILE and exit 0")
     p.add_argument("--no-safety-note", action="store_true", help="leave the safety note out (standard error and the JSON, SARIF and JUnit reports); configuration: safety-note: false")
@@ -239,7 +252,10 @@ def _run_check(args: argparse.Namespace) -> int:
     if args.jobs is not None and args.jobs < 1:
         raise UsageError("ctllint: --jobs must be at least 1")
     paths = args.paths or ["."]
-    result = run_check(paths, cfg, host, settings, jobs=args.jobs, use_cache=not args.no_cache)
+    from .progress import Meters
+
+    with Meters(args.quiet) as meters:
+        result = run_check(paths, cfg, host, settings, jobs=args.jobs, use_cache=not args.no_cache, progress=meters.start)
     note = None if args.no_safety_note or not cfg.safety_note else SAFETY_NOTE
     if result.missing:
         raise UsageError("ctllint: " + "; ".join(f"path '{m}' does not exist" for m in result.missing))
@@ -268,8 +284,8 @@ def _run_check(args: argparse.Namespace) -> int:
     fail_on = Severity.parse(args.fail_on or cfg.fail_on or "error")
     failed = any(d.severity >= fail_on for d in diagnostics)
     if args.format == "text" or args.output:
-        tail = summary_line(diagnostics, result.files)
-        print(f"ctllint: {tail}", file=sys.stderr)
+        tail = summary_line(diagnostics, result.files, result.device_files)
+        print(f"ctllint: {tail}" + (f" ({exit_note(fail_on)})" if failed else ""), file=sys.stderr)
         if not result.files:
             print(f"ctllint: no *.ctl.yaml or *.ctl.yml files under {', '.join(paths)}", file=sys.stderr)
     # The note on every run, clean ones too: on standard error after the

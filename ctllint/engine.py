@@ -25,6 +25,7 @@ class FileResult:
     used_files: list[str] = field(default_factory=list)
     loaded: bool = True
     shared: dict[str, Any] = field(default_factory=dict)  # per rule, for its run-wide pass (Rule.combine)
+    device_file: bool = False  # a shared device file (only ``devices``), counted apart from schematics
 
 
 @dataclass
@@ -66,7 +67,7 @@ class Checker:
         if MARKER in sch.text:  # the file's lines are split only when it holds a suppression
             diags = apply_suppressions(sch.path, sch.text_lines, diags, known)
         diags = [d for d in diags if d.rule in BUILTIN_CORE_RULES or d.rule in self.settings.enabled]
-        return FileResult(sch.path, sorted(set(diags)), result.used_files, shared=shared)
+        return FileResult(sch.path, sorted(set(diags)), result.used_files, shared=shared, device_file=sch.device_file)
 
 
 def worst(diagnostics: Iterable[Diagnostic]) -> Severity | None:

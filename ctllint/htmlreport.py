@@ -23,6 +23,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from html import escape
+from typing import Any
 
 from . import __version__
 from .diff import ADDED, APPEARED, CHANGED, MOVED, REMOVED, ElementDiff, RungDiff, SchematicDiff, ValueChange, changed_rungs
@@ -82,6 +83,12 @@ def _plural(n: int, word: str) -> str:
     return f"{n} {word}{'' if n == 1 or word == 'info' else 's'}"
 
 
+def _files_checked(files: list[FileReport]) -> str:
+    """``4 schematics, 1 device file``: shared device files counted apart, as the command line's summary does."""
+    device_files = sum(1 for f in files if f.schematic is not None and f.schematic.device_file)
+    return _plural(len(files) - device_files, "schematic") + (f", {_plural(device_files, 'device file')}" if device_files else "")
+
+
 def _badges(counts: dict[Severity, int]) -> str:
     if not any(counts.values()):
         return '<span class="badge clean">no findings</span>'
@@ -134,8 +141,10 @@ footer{color:#5c6670;padding-bottom:32px;font-size:13px}
 """
 
 
-def render_html(files: list[FileReport], title: str = "ctllint report", changes: Changes | None = None) -> str:
-    """The report page for ``files`` (in the order given), with a changes section when ``changes`` is given."""
+def render_html(files: list[FileReport], title: str = "ctllint report", changes: Changes | None = None,
+                progress: Any = None) -> str:
+    """The report page for ``files`` (in the order given), with a changes section when ``changes`` is given;
+    ``progress.advance(1)`` is called as each file is drawn."""
     css = CSS
     for sev, colour in SEVERITY_COLOUR.items():
         css += f".sev-{sev}{{color:{colour}}}\n.badge.sev-{sev}{{border-color:{colour};background:{SEVERITY_TINT[sev]}}}\n"
@@ -158,7 +167,7 @@ def render_html(files: list[FileReport], title: str = "ctllint report", changes:
         "<body>",
         "<header>",
         f"<h1>{escape(title)}</h1>",
-        f'<p class="meta">{_plural(len(files), "file")} checked \u00b7 '
+        f'<p class="meta">{_files_checked(files)} checked \u00b7 '
         f'{_plural(total[Severity.ERROR], "error")}, {_plural(total[Severity.WARNING], "warning")}, {_plural(total[Severity.INFO], "info")}'
         + (f" \u00b7 changes since {escape(changes.since)}" if changes else "")
         + f" \u00b7 ctllint {escape(__version__)}</p>",
@@ -197,6 +206,8 @@ def render_html(files: list[FileReport], title: str = "ctllint report", changes:
         out.extend(_changes_section(changes, files, index_of))
     for i, f in enumerate(files, 1):
         out.extend(_file_section(i, f, changes.since if f.path in change_of else None))
+        if progress is not None:
+            progress.advance(1)
     out += [
         "</main>",
         f'<footer><p>{escape(SAFETY_NOTE)}</p><p>Made by ctllint {escape(__version__)}. '

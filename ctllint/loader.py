@@ -359,6 +359,18 @@ class _Loader:
 
     def unknown_key(self, knode: Node, key: str, where: str, allowed: tuple[str, ...]) -> None:
         hint = _closest(key, allowed)
+        if hint is None:  # text cut off by a comma in a {...} mapping (FORMAT.md, "Additions"): say to quote it
+            from .yamlhints import comma_in_text, lines_of
+
+            state = getattr(self, "_hints", None)
+            if state is None:  # the file split once, however many such keys; at most 50 hints a file,
+                state = self._hints = [lines_of(self.source), 50]  # each reads its whole line
+            lines = state[0]
+            state[1] -= 1
+            cut = state[1] >= 0 and comma_in_text(lines[knode.line - 1] if 0 < knode.line <= len(lines) else "", knode.column)
+            if cut:
+                self.error(knode, f"{cut} (in {where})")
+                return
         self.error(knode, f"unknown key '{key}' in {where}" + (f" (did you mean '{hint}'?)" if hint else f"; allowed: {', '.join(allowed)}"))
 
     # -- the file ------------------------------------------------------

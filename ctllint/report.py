@@ -49,13 +49,17 @@ def render_text(diagnostics: list[Diagnostic], files: list[str], rules: dict[str
     return "".join(line + "\n" for line in lines)
 
 
-def summary_line(diagnostics: list[Diagnostic], files: list[str]) -> str:
+def summary_line(diagnostics: list[Diagnostic], files: list[str], device_files: int = 0) -> str:
+    """``4 errors, 1 warning, 0 info in 4 schematics, 1 device file``: shared device files counted apart."""
     counts = {s: sum(1 for d in diagnostics if d.severity == s) for s in Severity}
     parts = [f"{counts[Severity.ERROR]} error{'s' * (counts[Severity.ERROR] != 1)}",
              f"{counts[Severity.WARNING]} warning{'s' * (counts[Severity.WARNING] != 1)}",
              f"{counts[Severity.INFO]} info"]
-    n = len(files)
-    return f"{', '.join(parts)} in {n} file{'s' * (n != 1)}"
+    n = len(files) - device_files
+    where = f"{n} schematic{'s' * (n != 1)}"
+    if device_files:
+        where += f", {device_files} device file{'s' * (device_files != 1)}"
+    return f"{', '.join(parts)} in {where}"
 
 
 def render_json(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule], note: str | None = SAFETY_NOTE) -> str:

@@ -25,6 +25,7 @@ import stat
 import sys
 import tempfile
 from dataclasses import asdict, dataclass, field
+from typing import Any, Callable
 
 from . import __version__
 from .config import Config
@@ -35,7 +36,7 @@ from .loader import SCHEMATIC_SUFFIXES, find_repository_root
 from .model import Diagnostic, Severity
 from .yamlsafe import Limits
 
-CACHE_FORMAT = 2  # 2: entries keep the data of run-wide rules (Rule.collect)
+CACHE_FORMAT = 3  # 2: entries keep the data of run-wide rules (Rule.collect); 3: and whether the file is a shared device file
 
 
 @dataclass
@@ -44,6 +45,7 @@ class RunResult:
     files: list[str]
     missing: list[str] = field(default_factory=list)
     cached: int = 0
+    device_files: int = 0  # how many of ``files`` are shared device files, not schematics
 
 
 def default_cache_dir() -> str:
@@ -108,7 +110,7 @@ def _plugin_files(module_file: str) -> list[str]:
     return out
 
 
-_ENTRY_KEYS = {"digest", "used", "loaded", "shared", "diagnostics", "target", "fingerprint"}
+_ENTRY_KEYS = {"digest", "used", "loaded", "shared", "device_file", "diagnostics", "target", "fingerprint"}
 _DIAG_KEYS = {"path": str, "line": int, "column": int, "rule": str, "severity": int, "message": str, "subject": str}
 
 
@@ -116,8 +118,8 @@ def _valid_entry(data: object) -> bool:
     """Whether a cache entry has exactly the shape ``put`` writes; anything else is a miss."""
     if not isinstance(data, dict) or set(data) != _ENTRY_KEYS or not isinstance(data["loaded"], bool):
         return False
-    if not isinstance(data["shared"], dict):  # what run-wide rules collected (Rule.collect), plain JSON
-        return False
+    if not isinstance(data["shared"], dict) or not isinstance(data["device_file"], bool):
+        return False  # what run-wide rules collected (Rule.collect), and whether it is a device file
     used = data["used"]
     if not isinstance(used, list) or not all(isinstance(u, list) and len(u) == 2 and all(isinstance(x, str) for x in u) for u in used):
         return False
@@ -239,7 +241,7 @@ class ResultCache:
             if _state(used, self.max_bytes) != state:
                 return None
         diags = [Diagnostic(d["path"], d["line"], d["column"], d["rule"], Severity(d["severity"]), d["message"], d["subject"]) for d in data["diagnostics"]]
-        return FileResult(target.shown, diags, [u for u, _ in data["used"]], data["loaded"], data["shared"])
+        return FileResult(target.shown, diags, [u for u, _ in data["used"]], data["loaded"], data["shared"], data["device_file"])
 
     def put(self, target: Target, digest: str | None, result: FileResult) -> None:
         if self.key is None or digest is None or any(d.rule == "plugin-error" for d in result.diagnostics):
@@ -251,6 +253,7 @@ class ResultCache:
             "used": [[u, _state(u, self.max_bytes)] for u in result.used_files],
             "loaded": result.loaded,
             "shared": result.shared,
+            "device_file": result.device_file,
             "diagnostics": [{"path": d.path, "line": d.line, "column": d.column, "rule": d.rule, "severity": int(d.severity), "message": d.message, "subject": d.subject} for d in result.diagnostics],
         }
         entry = self._entry_path(target)
@@ -367,7 +370,14 @@ def _is_device_file(path: str) -> bool:
     return "devices" in keys and not keys & {"supplies", "rungs", "use", "expect"}
 
 
-def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSettings, jobs: int | None = None, use_cache: bool = True) -> RunResult:
+def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSettings, jobs: int | None = None, use_cache: bool = True,
+              progress: Callable[[int], Any] | None = None) -> RunResult:
+    """Check every schematic under ``paths``.
+
+    ``progress``, when given, is called once with the number of files found
+    and returns a meter whose ``advance(n)`` is called as n more are done
+    (``ctllint.progress.Progress``); the caller closes it.
+    """
     base = cfg.folder if cfg.path else None
     targets, missing = discover(paths, cfg.exclude, base)
     if missing:
@@ -393,10 +403,13 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     results: dict[int, FileResult] = {}
     todo: list[int] = []
     digests: dict[int, str | None] = {}
+    meter = progress(len(targets)) if progress else None
     for i, t in enumerate(targets):
         hit = cache.get(t) if cache else None
         if hit is not None:
             results[i] = hit
+            if meter:
+                meter.advance(1)
         else:
             todo.append(i)
             if cache:
@@ -416,8 +429,12 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
         pool = ProcessPoolExecutor(max_workers=min(jobs, len(todo)), mp_context=context, initializer=_worker_init, initargs=(checker,))
         try:
             chunk = max(1, len(todo) // (jobs * 4))
+            if meter:  # results come back a chunk at a time: smaller chunks keep the count moving
+                chunk = min(chunk, 8)
             for i, result in zip(todo, pool.map(_check_one, [targets[i] for i in todo], chunksize=chunk)):
                 results[i] = result
+                if meter:
+                    meter.advance(1)
         except BaseException:  # SIGTERM, Ctrl-C, a broken pool: the workers must not outlive the run
             _stop_workers(pool)
             raise
@@ -425,6 +442,8 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     else:
         for i in todo:
             results[i] = checker.check_file(targets[i].path, display_path=targets[i].shown)
+            if meter:
+                meter.advance(1)
     if cache:
         for i in todo:
             cache.put(targets[i], digests.get(i), results[i])
@@ -450,7 +469,8 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     for r in results.values():
         diagnostics.update(r.diagnostics)
     diagnostics.update(_suppressed(combine_rules(host, settings, [r.shared for r in results.values() if r.shared]), host))
-    return RunResult(sorted(diagnostics), [t.shown for t in targets], cached=cached)
+    return RunResult(sorted(diagnostics), [t.shown for t in targets], cached=cached,
+                     device_files=sum(1 for r in results.values() if r.device_file))
 
 
 def _shared_device_files(data) -> list[str]:

@@ -274,7 +274,11 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
         mark = exc.problem_mark or exc.context_mark
         line, col = (mark.line + 1, mark.column + 1) if mark is not None else (1, 1)
         what = (exc.problem or exc.context or "invalid YAML").strip()
-        raise YamlProblem(line, col, f"YAML: {what}") from None
+        from .yamlhints import explain  # only when a file is broken: the common mistakes in plain words
+
+        cmark = exc.context_mark
+        line, col, message = explain(text, what, line, col, exc.context, cmark and cmark.line + 1, cmark and cmark.column + 1)
+        raise YamlProblem(line, col, message) from None
     except YAMLError as exc:
         first = str(exc).splitlines()[0] if str(exc) else "invalid YAML"
         raise YamlProblem(1, 1, f"YAML: {first}") from None

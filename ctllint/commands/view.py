@@ -4,15 +4,16 @@ from __future__ import annotations
 import argparse
 import difflib
 import os
+import pathlib
 import shutil
 import sys
 
-from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, settings_for, setup, split_names, write_output
+from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, exit_note, add_config_args, add_plugins_arg, add_quiet_arg, command, settings_for, setup, split_names, write_output
 from ..discover import discover, display_path
 from ..engine import Checker
 from ..loader import LoadResult, load_file
 from ..model import Diagnostic, Location, Scenario, Schematic, Severity, Step
-from ..report import SAFETY_NOTE, render_text
+from ..report import SAFETY_NOTE, render_text, summary_line
 
 # -- shared -------------------------------------------------------------------------
 
@@ -140,6 +141,7 @@ def _configure_report(p: argparse.ArgumentParser) -> None:
     p.add_argument("-o", "--output", metavar="report.html", help="write the page to this file (atomically) instead of standard output")
     p.add_argument("--title", default="ctllint report", help="the page's heading (default: %(default)s)")
     p.add_argument("--fail-on", choices=("error", "warning", "info"), help="lowest severity that makes the exit status 1 (default: error)")
+    add_quiet_arg(p)
     p.add_argument("--changes-since", metavar="REV",
                    help="add a 'Changes since REV' section: what changed in each schematic since git revision REV "
                         "(e.g. HEAD~1, main, a tag), with each changed rung drawn before and after; needs git")
@@ -159,21 +161,31 @@ def _run_report(args: argparse.Namespace) -> int:
     base = _git_base(args.changes_since, targets) if args.changes_since is not None else None
     checker = Checker(host, settings, cfg.limits)
     files = []
-    for t in targets:
-        result = checker.check_file(t.path, display_path=t.shown)
-        loaded = load_file(t.path, host.kinds, cfg.limits, checker.device_cache, display_path=t.shown)
-        files.append(FileReport(t.shown, loaded.schematic, result.diagnostics))
-    changes = None
-    if base is not None:
-        changes = _changes_since(args.changes_since, base, targets, files, checker, cfg, args.paths or ["."])
-    write_output(render_html(files, args.title, changes), args.output)
+    from ..progress import Meters
+
+    with Meters(args.quiet) as meters:  # on a terminal: files checked, then files drawn, of the total
+        meter = meters.start(len(targets)) if meters.start else None
+        for t in targets:
+            result = checker.check_file(t.path, display_path=t.shown)
+            loaded = load_file(t.path, host.kinds, cfg.limits, checker.device_cache, display_path=t.shown)
+            files.append(FileReport(t.shown, loaded.schematic, result.diagnostics))
+            if meter:
+                meter.advance(1)
+        changes = None
+        if base is not None:
+            changes = _changes_since(args.changes_since, base, targets, files, checker, cfg, args.paths or ["."])
+        page = render_html(files, args.title, changes, progress=meters.start(len(files), "drew") if meters.start else None)
+    write_output(page, args.output)
     every = [d for f in files for d in f.diagnostics]
     fail_on = Severity.parse(args.fail_on or cfg.fail_on or "error")
+    failed = any(d.severity >= fail_on for d in every)
     if args.output:
-        counts = {s: sum(1 for d in every if d.severity == s) for s in Severity}
-        print(f"ctllint: wrote {args.output}: {len(files)} file(s), {counts[Severity.ERROR]} error(s), "
-              f"{counts[Severity.WARNING]} warning(s), {counts[Severity.INFO]} info", file=sys.stderr)
-    return EXIT_FINDINGS if any(d.severity >= fail_on for d in every) else EXIT_OK
+        device_files = sum(1 for f in files if f.schematic is not None and f.schematic.device_file)
+        tail = summary_line(every, [f.path for f in files], device_files)
+        print(f"ctllint: wrote {args.output}: {tail}" + (f" ({exit_note(fail_on)})" if failed else ""), file=sys.stderr)
+        if os.path.isfile(args.output):
+            print(f"ctllint: open it in a web browser: {pathlib.Path(os.path.abspath(args.output)).as_uri()}", file=sys.stderr)
+    return EXIT_FINDINGS if failed else EXIT_OK
 
 
 def _repo_rel(path: str, top: str) -> str | None:

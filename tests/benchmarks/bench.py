@@ -35,6 +35,35 @@ def best(cmd: list[str], repeats: int, env: dict | None = None, cwd: str | None 
     return min(times)
 
 
+def best_tty(cmd: list[str], repeats: int, env: dict) -> tuple[float, bytes]:
+    """As ``best``, with standard error on a pseudo-terminal (where ctllint shows progress);
+    also what the terminal received on the last run."""
+    import pty
+
+    times, seen = [], b""
+    for _ in range(repeats):
+        master, slave = pty.openpty()
+        t = time.perf_counter()
+        proc = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=slave, env=env)
+        os.close(slave)
+        chunks = []
+        while True:
+            try:
+                data = os.read(master, 65536)
+            except OSError:  # EIO: the process closed the terminal
+                break
+            if not data:
+                break
+            chunks.append(data)
+        proc.wait()
+        times.append(time.perf_counter() - t)
+        os.close(master)
+        seen = b"".join(chunks)
+        if proc.returncode not in (0, 1):
+            raise SystemExit(f"{' '.join(cmd)} exited {proc.returncode}:\n{seen.decode(errors='replace')[-2000:]}")
+    return min(times), seen
+
+
 def in_process(path: str, repeats: int) -> float:
     """Best time to check ``path`` (load, analyses, every rule) in a process already started."""
     code = (
@@ -57,7 +86,7 @@ def ctllint(*args: str) -> list[str]:
 
 
 def main() -> None:
-    parser = argparse.ArgumentParser(description=__doc__)
+    parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--quick", action="store_true", help="fewer repeats and smaller parallel set")
     parser.add_argument("--repeats", type=int, default=None)
     args = parser.parse_args()
@@ -127,6 +156,41 @@ def main() -> None:
     t_j1 = best(ctllint("check", "--no-cache", "-j", "1", folder), max(1, repeats - 1), env=nocache)
     t_j2 = best(ctllint("check", "--no-cache", "-j", "2", folder), max(1, repeats - 1), env=nocache)
     rows.append((f"parallel: {count} files x 50 circuits, 2 jobs / 1 job", f"{t_j2:.3f} s / {t_j1:.3f} s", f"{t_j2 / t_j1:.2f}", "<= 0.65"))
+
+    # Progress on a terminal (NO_COLOR unset): what showing it costs at start-up and on a long run.
+    tty_env = {k: v for k, v in nocache.items() if k not in ("NO_COLOR", "CI")}
+    tty_env.setdefault("TERM", "xterm")
+    def paired(cmd: list[str], times: int) -> tuple[float, float, bytes]:
+        """Best on a terminal and best into a pipe, the runs taken in turn so both see the same load."""
+        tty, pipe, seen = [], [], b""
+        for _ in range(times):
+            t, seen = best_tty(cmd, 1, tty_env)
+            tty.append(t)
+            pipe.append(best(cmd, 1, env=tty_env))
+        return min(tty), min(pipe), seen
+
+    # What progress adds to a run's start-up, timed inside a fresh interpreter (a whole-process
+    # difference of a few milliseconds is lost in the noise of process start): importing
+    # ctllint.progress once ctllint is loaded, deciding to show it, and a meter taking
+    # 10,000 files on a terminal (stderr is a pseudo-terminal here).
+    cost_code = ("import sys, time, os, pty\n"
+                 "import ctllint, ctllint.report\n"
+                 "m, s = pty.openpty(); sys.stderr = os.fdopen(s, 'w')\n"
+                 "t = time.perf_counter()\n"
+                 "from ctllint.progress import Meters\n"
+                 "with Meters(False) as meters:\n"
+                 "    meter = meters.start(10000)\n"
+                 "    for _ in range(10000): meter.advance(1)\n"
+                 "print(time.perf_counter() - t)\n")
+    costs = []
+    for _ in range(repeats * 2):
+        out = subprocess.run([PY, "-c", cost_code], capture_output=True, text=True, env=tty_env)
+        costs.append(float(out.stdout.strip().splitlines()[-1]))
+    t_progress = min(costs)
+    rows.append(("start-up: progress (import, 10,000 files counted) / check 1 circuit", f"{t_progress * 1000:.1f} ms / {t_one:.3f} s", f"{t_progress / t_one:.3f}", "<= 0.02"))
+    t_many_tty, t_many_pipe, seen = paired(ctllint("check", "--no-cache", "-j", "2", folder), max(1, repeats - 1))
+    updates = seen.count(b" files, ")
+    rows.append((f"progress: {count} files, 2 jobs, terminal ({updates} updates) / pipe", f"{t_many_tty:.3f} s / {t_many_pipe:.3f} s", f"{t_many_tty / t_many_pipe:.2f}", "<= 1.05"))
 
     # Memory: the peak resident set of `ctllint check` (as the console script runs it, through
     # ctllint._entry) on the 1,000-circuit file, less the same for the one-circuit file: what

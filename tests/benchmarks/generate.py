@@ -8,6 +8,9 @@ result obeys every rule, so a check does all its work and reports nothing.
 ``lattice(n)``: one rung whose contacts form a ladder lattice of n
 sections with cross-links between the two strings; the number of simple
 paths grows exponentially with n while the file grows linearly.
+
+Run: python tests/benchmarks/generate.py motors 1000 > line.ctl.yaml
+     python tests/benchmarks/generate.py lattice 200 -o lattice.ctl.yaml
 """
 from __future__ import annotations
 
@@ -85,6 +88,34 @@ def lattice(n: int) -> str:
     return "\n".join(out) + "\n"
 
 
+def main(argv: list[str] | None = None) -> int:
+    import argparse
+
+    def positive(text: str) -> int:
+        try:
+            value = int(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"'{text}' is not a whole number") from None
+        if value < 1:
+            raise argparse.ArgumentTypeError("must be at least 1")
+        return value
+
+    parser = argparse.ArgumentParser(
+        description="Write a generated schematic for the benchmarks: 'motors N' (N everyday motor circuits that obey "
+                    "every rule) or 'lattice N' (one rung of N cross-linked contact sections).",
+        epilog="example: python tests/benchmarks/generate.py motors 1000 > line.ctl.yaml")
+    parser.add_argument("kind", choices=("motors", "lattice"), help="what to generate")
+    parser.add_argument("count", type=positive, help="motor circuits or lattice sections")
+    parser.add_argument("-o", "--output", metavar="FILE", help="write to FILE instead of standard output")
+    args = parser.parse_args(argv)
+    text = motor_circuits(args.count) if args.kind == "motors" else lattice(args.count)
+    if args.output:
+        with open(args.output, "w", encoding="utf-8") as handle:
+            handle.write(text)
+    else:
+        sys.stdout.write(text)
+    return 0
+
+
 if __name__ == "__main__":
-    kind, count = sys.argv[1], int(sys.argv[2])
-    sys.stdout.write(motor_circuits(count) if kind == "motors" else lattice(count))
+    sys.exit(main())
