@@ -17,6 +17,7 @@ import traceback
 from typing import Any, Callable
 
 from . import __version__
+from .budget import CommandTimeout, command_budget, set_limit
 from .config import Config, ConfigError, find_config, load_config, resolve_rules
 from .host import PluginHost, RuleSettings
 from .model import Diagnostic, Severity
@@ -91,6 +92,7 @@ def setup(args: argparse.Namespace) -> tuple[Config, PluginHost]:
     if path is not None and not os.path.isfile(path):
         raise UsageError(f"ctllint: configuration file '{path}' does not exist")
     cfg = load_config(path or find_config(os.getcwd()))
+    set_limit(cfg.limits.command_seconds)
     host = PluginHost.create(local_plugins=cfg.plugins)
     return cfg, host
 
@@ -326,13 +328,17 @@ def main(argv: list[str] | None = None) -> int:
         if not args.command:
             parser.print_help()
             return EXIT_USAGE
-        return COMMANDS[args.command][1](args)
+        with command_budget(args.command):
+            return COMMANDS[args.command][1](args)
     except UsageError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_USAGE
     except ConfigError as exc:
         print(f"ctllint: configuration error: {exc}", file=sys.stderr)
         return EXIT_USAGE
+    except CommandTimeout as exc:
+        print(f"ctllint: {exc}", file=sys.stderr)
+        return EXIT_FINDINGS
     except KeyboardInterrupt:
         print("ctllint: interrupted", file=sys.stderr)
         return 130

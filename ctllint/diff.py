@@ -41,6 +41,7 @@ from collections import Counter, defaultdict
 from dataclasses import dataclass, field, fields, is_dataclass
 from typing import TYPE_CHECKING, Any, Iterable
 
+from .budget import work
 from .loader import LoadResult, load_file, load_text
 from .model import Diagnostic, Location, Quantity, Rung, Schematic, Step
 from .yamlsafe import Limits, MappingNode, Node, ScalarNode, SequenceNode, YamlProblem, compose, pos
@@ -448,6 +449,10 @@ def _matched_connections(old_edges: list[Edge], new_edges: list[Edge], translate
 # contact on every rung) is skipped when rarer ones exist, so that matching
 # stays near linear in the size of the file.
 _COMMON = 32
+# Rungs sharing a title are compared pair by pair while the pairs are at most
+# this many; a larger group (a thousand rungs titled "Spare") is matched
+# through shared elements and then in drawing order.
+_TITLE_PAIRS = 4096
 
 
 def _candidates(item: Any, keys: Iterable[Any], index: dict[Any, list[Any]]) -> set[Any]:
@@ -565,6 +570,19 @@ class _Wires:
 # -- the diff --------------------------------------------------------------------------
 
 def semantic_diff(
+    old: Schematic | None,
+    new: Schematic | None,
+    old_findings: Iterable[Diagnostic] | None = None,
+    new_findings: Iterable[Diagnostic] | None = None,
+    old_label: str = "",
+    new_label: str = "",
+) -> SchematicDiff:
+    """Compare two revisions: see ``_semantic_diff``; one unit of the command's time budget (``ctllint.budget``)."""
+    with work(f"the diff of {(new or old).path if (new or old) else 'two files'}"):
+        return _semantic_diff(old, new, old_findings, new_findings, old_label, new_label)
+
+
+def _semantic_diff(
     old: Schematic | None,
     new: Schematic | None,
     old_findings: Iterable[Diagnostic] | None = None,
@@ -746,7 +764,21 @@ def _match_rungs(old: list[Rung], new: list[Rung], wires: _Wires) -> list[tuple[
         if r.title:
             titles[r.title.strip()][1].append(j)
     for olds, news in titles.values():
-        pick([(i, j) for i in olds for j in news], "title", None)
+        if len(olds) * len(news) <= _TITLE_PAIRS:
+            pick([(i, j) for i in olds for j in news], "title", None)
+            continue
+        # Many rungs under one title ("Spare", "Motor"): score only the pairs
+        # that share an element (found through their rarer names), then pair
+        # the rest in drawing order, so that the cost stays near linear.
+        group: dict[str, list[int]] = defaultdict(list)
+        for j in news:
+            for text in names_n[j]:
+                group[text].append(j)
+        pick([(i, j) for i in olds for j in sorted(_candidates(i, names_o[i], group))], "title", 1e-9)
+        for i, j in zip([i for i in olds if i not in used_o], [j for j in news if j not in used_n]):
+            used_o.add(i)
+            used_n.add(j)
+            pairs.append((old[i], new[j], "title"))
     # the same connections: paired in drawing order, without scoring
     same: dict[frozenset, list[int]] = defaultdict(list)
     for j in range(len(new)):
@@ -1030,6 +1062,12 @@ def _check(rev: Revision, checker: "Checker") -> list[Diagnostic]:
 
 
 def diff_revisions(old: Revision, new: Revision, checker: "Checker | None" = None, findings: bool = True) -> SchematicDiff:
+    """Load, check and compare two revisions: see ``_diff_revisions``; one unit of the command's time budget."""
+    with work(f"the diff of {new.path if new.exists else old.path}"):
+        return _diff_revisions(old, new, checker, findings)
+
+
+def _diff_revisions(old: Revision, new: Revision, checker: "Checker | None" = None, findings: bool = True) -> SchematicDiff:
     """Load (and, with a checker, check) two revisions and compare them.
 
     A revision that does not load gives status "unloadable": its format

@@ -38,6 +38,7 @@ class Limits:
     max_nodes: int = 4_000_000  # after alias expansion
     max_elements: int = 1_000_000
     plugin_seconds: float = 60.0  # per file for all rules together; a stopped rule gives the rest one more period
+    command_seconds: float = 300.0  # per drawing, per file's diff, per simulation (draw, report, diff, simulate)
 
 
 STD = "tag:yaml.org,2002:"

@@ -7,6 +7,7 @@ import os
 import shutil
 import sys
 
+from ..budget import work
 from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, command, settings_for, setup, split_names, write_output
 from ..discover import discover, display_path
 from ..engine import Checker
@@ -80,9 +81,14 @@ def _configure_draw(p: argparse.ArgumentParser) -> None:
 
 
 def _run_draw(args: argparse.Namespace) -> int:
+    loaded, shown, cfg, host = _one_file(args, args.path)
+    with work(f"checking and drawing {shown}"):
+        return _draw(args, loaded, shown, cfg, host)
+
+
+def _draw(args: argparse.Namespace, loaded: LoadResult, shown: str, cfg, host) -> int:
     from ..draw import layout
 
-    loaded, shown, cfg, host = _one_file(args, args.path)
     refused = _refuse_unloadable(loaded)
     if refused is not None:
         return refused
@@ -158,8 +164,9 @@ def _run_report(args: argparse.Namespace) -> int:
     checker = Checker(host, settings, cfg.limits)
     files = []
     for t in targets:
-        result = checker.check_file(t.path, display_path=t.shown)
-        loaded = load_file(t.path, host.kinds, cfg.limits, checker.device_cache, display_path=t.shown)
+        with work(f"checking {t.shown}"):
+            result = checker.check_file(t.path, display_path=t.shown)
+            loaded = load_file(t.path, host.kinds, cfg.limits, checker.device_cache, display_path=t.shown)
         files.append(FileReport(t.shown, loaded.schematic, result.diagnostics))
     changes = None
     if base is not None:
@@ -566,15 +573,16 @@ def step_text(step: Step) -> str:
 def simulate_rows(sim, steps: list[Step]) -> tuple[list[str], list[dict]]:
     """Run ``steps`` from rest; one row per state: step text, load states, notes.
 
-    Each row replays the steps so far through ``Simulator.run_scenario``, so
-    the states shown are exactly what an expect scenario of those steps sees.
+    The steps run once through ``Simulator.scenario_steps``, the scenario
+    runner itself, so the states shown are exactly what an expect scenario
+    of those steps sees, in time linear in the steps.
     """
     rows = []
     loads: list[str] = []
     previous: dict[str, bool] = {}
-    for n in range(len(steps) + 1):
-        scen = Scenario("command line", Location("<command line>", 0, 0), steps[:n])
-        events = sim.run_scenario(scen)
+    scen = Scenario("command line", Location("<command line>", 0, 0), list(steps))
+    for at, events in sim.scenario_steps(scen):
+        n = 0 if at is None else at + 1
         states = sim.states()
         if not loads:
             loads = list(states)
@@ -632,9 +640,14 @@ def render_loads_table(loads: list[str], rows: list[dict]) -> str:
 
 
 def _run_simulate(args: argparse.Namespace) -> int:
+    loaded, shown, cfg, host = _one_file(args, args.path)
+    with work(f"simulating {shown}"):
+        return _simulate(args, loaded, shown)
+
+
+def _simulate(args: argparse.Namespace, loaded: LoadResult, shown: str) -> int:
     from ..circuit import Circuit
 
-    loaded, shown, cfg, host = _one_file(args, args.path)
     refused = _refuse_unloadable(loaded)
     if refused is not None:
         return refused
