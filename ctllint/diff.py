@@ -39,6 +39,7 @@ import difflib
 import re
 from collections import Counter, defaultdict
 from dataclasses import dataclass, field, fields, is_dataclass
+from enum import Enum
 from typing import TYPE_CHECKING, Any, Iterable
 
 from .budget import work
@@ -650,9 +651,8 @@ def _field_changes(names: Iterable[str], get_old, get_new, written_old, written_
 
 
 def _ordered_union(a: Iterable[str], b: Iterable[str]) -> list[str]:
-    out = list(dict.fromkeys(a))
-    out += [x for x in dict.fromkeys(b) if x not in out]
-    return out
+    first = dict.fromkeys(a)
+    return list(first) + [x for x in dict.fromkeys(b) if x not in first]
 
 
 def _supplies(old: Schematic | None, new: Schematic | None, so: _Source, sn: _Source) -> list[SupplyDiff]:
@@ -1135,12 +1135,32 @@ def render_text(diffs: list[SchematicDiff], colour: bool = False) -> str:
         code = {"+": _GREEN, "-": _RED, "~": _YELLOW}[m]
         return paint(code, f"{m} {text}")
 
+    from .cli import printable
+
     lines: list[str] = []
     for d in diffs:
         if lines:
             lines.append("")
-        lines += _render_one(d, paint, mark)
+        lines += _render_one(_printable(d, printable), paint, mark)
     return "".join(line + "\n" for line in lines)
+
+
+def _printable(value: Any, printable) -> Any:
+    """``value`` with every text in it shown by ``printable``: names, titles, values and messages come
+    from the files, and control characters or bidirectional overrides in them must not reach a terminal."""
+    if isinstance(value, Enum):
+        return value
+    if isinstance(value, str):
+        return printable(value)
+    if isinstance(value, list):
+        return [_printable(v, printable) for v in value]
+    if isinstance(value, tuple):
+        return tuple(_printable(v, printable) for v in value)
+    if isinstance(value, dict):
+        return {_printable(k, printable): _printable(v, printable) for k, v in value.items()}
+    if is_dataclass(value) and not isinstance(value, type):
+        return type(value)(**{f.name: _printable(getattr(value, f.name), printable) for f in fields(value)})
+    return value
 
 
 def _render_one(d: SchematicDiff, paint, mark) -> list[str]:

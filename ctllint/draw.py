@@ -38,9 +38,10 @@ All text uses a monospaced face, so a label's width is known exactly
 from __future__ import annotations
 
 import os
+import re
 from dataclasses import dataclass, field
 from typing import Iterable
-from xml.sax.saxutils import escape, quoteattr
+from xml.sax.saxutils import escape as _escape, quoteattr as _quoteattr
 
 from .budget import work
 from .model import Diagnostic, Element, Location, Rung, Schematic, Severity, Supply
@@ -106,6 +107,27 @@ CHANGE_DASH = {"removed": "6 3", "moved-from": "6 3", "added": "", "moved-to": "
 
 # Letters for loads that are neither coils nor lamps (a circle with a letter).
 LOAD_LETTER = {"solenoid": "S", "horn": "H", "plc-input": "I"}
+
+
+# What a schematic's text may hold that must not reach the SVG as it is: characters
+# XML does not allow (the drawing would not open), other control characters and
+# bidirectional overrides (they would reorder or hide what is drawn). Shown
+# escaped, as Python writes them (``\x1b``).
+_UNSHOWN = re.compile("[\x00-\x1f\x7f-\x9f\u061c\u200e\u200f\u2028\u2029\u202a-\u202e\u2066-\u2069\ud800-\udfff\ufffe\uffff]")
+
+
+def _visible(text: str) -> str:
+    return _UNSHOWN.sub(lambda m: m.group().encode("unicode_escape", "backslashreplace").decode("ascii"), text)
+
+
+def escape(text: str) -> str:
+    """``text`` for an SVG element's content."""
+    return _escape(_visible(text))
+
+
+def quoteattr(text: str) -> str:
+    """``text`` as a quoted SVG attribute value."""
+    return _quoteattr(_visible(text))
 
 
 def text_width(text: str, size: float) -> float:

@@ -8,7 +8,8 @@ import shutil
 import sys
 
 from ..budget import work
-from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, command, settings_for, setup, split_names, write_output
+from ..cli import (EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, command, printable, printable_diagnostic, settings_for, setup,
+                   split_names, write_output)
 from ..discover import discover, display_path
 from ..engine import Checker
 from ..loader import LoadResult, load_file
@@ -39,7 +40,7 @@ def _refuse_unloadable(loaded: LoadResult) -> int | None:
     """Print a file's format findings when it does not load; the exit status to return."""
     if loaded.schematic is not None:
         return None
-    sys.stderr.write(render_text(sorted(loaded.diagnostics), [], {}))
+    sys.stderr.write(render_text(sorted(printable_diagnostic(d) for d in loaded.diagnostics), [], {}))
     print("ctllint: the file does not load; fix the findings above first", file=sys.stderr)
     return EXIT_FINDINGS
 
@@ -410,6 +411,7 @@ def render_xref(rows: list[dict[str, str]]) -> str:
     heads = {"coil": "COIL", "kind": "KIND", "rung": "COIL RUNG", "no": "NO USED (RUNGS)", "nc": "NC USED (RUNGS)", "available": "AVAILABLE", "status": ""}
     if not rows:
         return "no relay, timer, contactor or starter in this file\n"
+    rows = [{k: printable(text) for k, text in r.items()} for r in rows]  # tags are the file's text: no terminal control
     keys = list(heads)
     widths = {k: max(len(heads[k]), *(len(r[k]) for r in rows)) for k in keys}
     lines = ["  ".join(heads[k].ljust(widths[k]) for k in keys).rstrip()]
@@ -610,12 +612,23 @@ def simulate_rows(sim, steps: list[Step]) -> tuple[list[str], list[dict]]:
     return loads, rows
 
 
+def _shown_rows(loads: list[str], rows: list[dict]) -> tuple[list[str], list[dict]]:
+    """Tags, step texts and notes with control characters and bidirectional overrides escaped (they come from the file)."""
+    shown = [printable(t) for t in loads]
+    out = []
+    for r in rows:
+        out.append({**r, "step": printable(r["step"]), "notes": [printable(n) for n in r["notes"]],
+                    "states": {printable(t): s for t, s in r["states"].items()}, "changed": {printable(t) for t in r["changed"]}})
+    return shown, out
+
+
 def _cell(row: dict, tag: str) -> str:
     return ("ON" if row["states"].get(tag) else "-") + ("*" if tag in row["changed"] else "")
 
 
 def render_steps_table(loads: list[str], rows: list[dict]) -> str:
     """Rows are steps, columns are loads, a notes column last."""
+    loads, rows = _shown_rows(loads, rows)
     step_w = max(len("STEP"), *(len(r["step"]) for r in rows))
     widths = [max(len(t), 3) for t in loads]
     head = f"{'#':>2}  {'STEP':<{step_w}}  " + "  ".join(f"{t:<{w}}" for t, w in zip(loads, widths)) + "  NOTES"
@@ -628,6 +641,7 @@ def render_steps_table(loads: list[str], rows: list[dict]) -> str:
 
 def render_loads_table(loads: list[str], rows: list[dict]) -> str:
     """Rows are loads, columns are steps (numbered; the steps and notes listed above)."""
+    loads, rows = _shown_rows(loads, rows)
     out = ["steps:"]
     for i, r in enumerate(rows):
         out.append(f"  {i:>2}  {r['step']}" + (f"   {'; '.join(r['notes'])}" if r["notes"] else ""))
@@ -668,7 +682,7 @@ def _simulate(args: argparse.Namespace, loaded: LoadResult, shown: str) -> int:
         steps = [parse_step(text, i, sch, sim) for i, text in enumerate(args.step)]
     loads, rows = simulate_rows(sim, steps)
     if not loads:
-        print(f"{shown}: no loads to show (no coil, solenoid, light, horn or PLC input in the rungs)")
+        print(f"{printable(shown)}: no loads to show (no coil, solenoid, light, horn or PLC input in the rungs)")
         return EXIT_OK
     by_steps = render_steps_table(loads, rows)
     by_loads = render_loads_table(loads, rows)
@@ -679,7 +693,7 @@ def _simulate(args: argparse.Namespace, loaded: LoadResult, shown: str) -> int:
         grid_w = len(by_steps.splitlines()[0]) - len("NOTES") + 12
         loads_w = max(len(line) for line in by_loads.splitlines() if line and not line.startswith(" "))
         choice = "steps" if grid_w <= columns or grid_w <= loads_w else "loads"
-    title = f"{shown}" + (f": scenario '{args.scenario}'" if args.scenario is not None else "")
+    title = printable(f"{shown}" + (f": scenario '{args.scenario}'" if args.scenario is not None else ""))
     sys.stdout.write(title + "\n" + (by_steps if choice == "steps" else by_loads))
     sys.stdout.write("ON energized, - not energized, * changed by this step\n")
     return EXIT_OK if all(r["ok"] for r in rows) else EXIT_FINDINGS
