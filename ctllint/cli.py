@@ -189,7 +189,7 @@ def _configure_check(p: argparse.ArgumentParser) -> None:
     p.add_argument("--select", action="append", metavar="RULES", help="check only these rules or plugins (comma-separated; repeatable)")
     p.add_argument("--ignore", action="append", metavar="RULES", help="skip these rules or plugins (comma-separated; repeatable)")
     p.add_argument("--fail-on", choices=("error", "warning", "info"), help="lowest severity that makes the exit status 1 (default: error)")
-    p.add_argument("-j", "--jobs", type=int, metavar="N", help="check files in N processes (default: the number of cores)")
+    p.add_argument("-j", "--jobs", type=int, metavar="N", help="check files in N processes (default: jobs: in the configuration, else the number of cores)")
     p.add_argument("--no-cache", action="store_true", help="do not read or write the result cache")
     p.add_argument("--baseline", metavar="FILE", help="report only findings not recorded in this baseline")
     p.add_argument("--write-baseline", metavar="FILE", help="record today's findings in FILE and exit 0")
@@ -206,7 +206,8 @@ def _run_check(args: argparse.Namespace) -> int:
     if args.jobs is not None and args.jobs < 1:
         raise UsageError("ctllint: --jobs must be at least 1")
     paths = args.paths or ["."]
-    result = run_check(paths, cfg, host, settings, jobs=args.jobs, use_cache=not args.no_cache)
+    jobs = args.jobs if args.jobs is not None else cfg.jobs  # the command line, then the configuration's jobs:
+    result = run_check(paths, cfg, host, settings, jobs=jobs, use_cache=not args.no_cache)
     if result.missing:
         raise UsageError("ctllint: " + "; ".join(f"path '{m}' does not exist" for m in result.missing))
     diagnostics = result.diagnostics

@@ -14,7 +14,7 @@ Keys::
       switch-fan-out: {severity: error, max_inductive: 2}
     plugins: [site_rules.py, tools/ctl_plugins/]   # local plugin paths
     exclude: ["legacy/**", "*.draft.ctl.yaml"]
-    limits: {max_file_bytes: 33554432, max_depth: 64, max_nodes: 4000000,
+    limits: {max_file_bytes: 33554432, max_depth: 64, max_nodes: 11184810,
              max_elements: 1000000, plugin_seconds: 60, command_seconds: 300}
     cache: true            # or false, or a folder
     jobs: 2

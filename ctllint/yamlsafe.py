@@ -35,10 +35,17 @@ class Limits:
 
     max_file_bytes: int = 32 * 1024 * 1024
     max_depth: int = 64
-    max_nodes: int = 4_000_000  # after alias expansion
+    max_nodes: int = 0  # after alias expansion; 0: a third of max_file_bytes (see __post_init__)
     max_elements: int = 1_000_000
     plugin_seconds: float = 60.0  # per file for all rules together; a stopped rule gives the rest one more period
     command_seconds: float = 300.0  # per drawing, per file's diff, per simulation (draw, report, diff, simulate)
+
+    def __post_init__(self) -> None:
+        # A file of ordinary rungs holds a value for every 7 bytes or so, and plain YAML
+        # cannot be denser than one for every 2 ("a,"): a third of the bytes admits every
+        # file max_file_bytes admits short of the densest, and still stops an alias bomb.
+        if not self.max_nodes:
+            object.__setattr__(self, "max_nodes", max(1, self.max_file_bytes // 3))
 
 
 STD = "tag:yaml.org,2002:"

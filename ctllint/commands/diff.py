@@ -244,8 +244,7 @@ class _RevisionTree:
         os.makedirs(os.path.join(folder, ".git"), exist_ok=True)  # the repository root for `use` checks
 
     def blob(self, rel: str) -> bytes | None:
-        done = _git_cmd(["show", f"{self.sha}:{rel}"], cwd=self.top, check=False)
-        return done.stdout if done.returncode == 0 else None
+        return _show(self.sha, rel, self.top)
 
     def write(self, rel: str) -> str | None:
         data = self.blob(rel)
@@ -259,13 +258,18 @@ class _RevisionTree:
             used_rel = os.path.normpath(os.path.join(os.path.dirname(rel), used)).replace(os.sep, "/")
             if used_rel.startswith("../") or os.path.isabs(used_rel):
                 continue
+            if not _git_path(used_rel):
+                continue  # the loader reports the entry; git is not asked for it
             if not os.path.exists(os.path.join(self.root, *used_rel.split("/"))):
                 data_used = self.blob(used_rel)
                 if data_used is not None:
                     used_target = os.path.join(self.root, *used_rel.split("/"))
-                    os.makedirs(os.path.dirname(used_target), exist_ok=True)
-                    with open(used_target, "wb") as handle:
-                        handle.write(data_used)
+                    try:
+                        os.makedirs(os.path.dirname(used_target), exist_ok=True)
+                        with open(used_target, "wb") as handle:
+                            handle.write(data_used)
+                    except OSError:  # a name the file system refuses: the loader reports the entry as missing
+                        continue
         return target
 
 
@@ -303,9 +307,29 @@ def _read(rel: str, sha: str | None, top: str) -> bytes | None:
         try:
             with open(os.path.join(top, *rel.split("/")), "rb") as handle:
                 return handle.read()
-        except OSError:
+        except (OSError, ValueError):
             return None
-    done = _git_cmd(["show", f"{sha}:{rel}"], cwd=top, check=False)
+    return _show(sha, rel, top)
+
+
+# A path git can be asked about: no NUL (an argument cannot hold one), within
+# what a file system names (PATH_MAX), so that a ``use`` entry written to be
+# hostile is reported by the loader rather than crashing the command.
+_GIT_PATH_MAX = 4096
+
+
+def _git_path(rel: str) -> bool:
+    return bool(rel) and "\0" not in rel and len(rel.encode("utf-8", "surrogateescape")) <= _GIT_PATH_MAX
+
+
+def _show(sha: str, rel: str, top: str) -> bytes | None:
+    """The blob at ``rel`` in revision ``sha``, or None (no such file, or a path git cannot be asked about)."""
+    if not _git_path(rel):
+        return None
+    try:
+        done = _git_cmd(["show", f"{sha}:{rel}"], cwd=top, check=False)
+    except (OSError, ValueError):  # an argument the system refuses
+        return None
     return done.stdout if done.returncode == 0 else None
 
 
