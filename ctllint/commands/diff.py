@@ -73,7 +73,8 @@ git integration (git diff shows this diff for schematics):
   (git calls the driver with: path old-file old-hex old-mode new-file new-hex
   new-mode; /dev/null stands for the missing side of an added or deleted file)
 
-exit status: 0 whatever changed, 2 usage error (missing file, bad revision).
+exit status: 0 whatever changed, 1 a file's diff ran past limits.command_seconds,
+2 usage error (missing file, bad revision).
 """
 
 

@@ -67,7 +67,8 @@ Elements carry ids and data attributes (id="el-12", data-element="M1.coil",
 data-line="14", data-rung="3") for tools that read the drawing.
 
 exit status: 0 drawn, 1 the file does not load (its format findings are
-printed), 2 usage or configuration error.
+printed) or the work ran past limits.command_seconds, 2 usage or
+configuration error.
 """
 
 
@@ -135,8 +136,10 @@ examples:
 
 exit status, as for 'ctllint check': 0 when no finding is at or above
 --fail-on (default error), 1 when one is (the page is written either
-way), 2 usage or configuration error, a bad revision, or --changes-since
-outside a git working tree (no page is written).
+way; also when a file's check, drawing or diff ran past
+limits.command_seconds, and then no page is written), 2 usage or
+configuration error, a bad revision, or --changes-since outside a git
+working tree (no page is written).
 """
 
 
@@ -460,8 +463,9 @@ or --scenario NAME to run one of the file's expect scenarios.
 Cells: ON energized, - not energized; * marks a load this step changed.
 
 exit status: 0 every step settled and every check held, 1 a step did not
-settle, a check failed or the file does not load, 2 usage error (an
-unknown tag, a bad step, an unknown scenario).
+settle, a check failed, the file does not load or the run passed
+limits.command_seconds, 2 usage error (an unknown tag, a bad step, an
+unknown scenario).
 
 example:
   ctllint simulate press.ctl.yaml --step press:PB2 --step release:PB2 \\
