@@ -38,6 +38,10 @@ def read_baseline(path: str) -> Counter:
         return Counter(_key(e["path"], e["rule"], e.get("subject", ""), e.get("message", "")) for e in data["findings"])
     except FileNotFoundError:
         raise UsageError(f"ctllint: baseline '{path}' does not exist (write one with --write-baseline)") from None
+    except IsADirectoryError:
+        raise UsageError(f"ctllint: baseline '{path}' is a folder; name the baseline file (written with --write-baseline)") from None
+    except OSError as exc:
+        raise UsageError(f"ctllint: baseline '{path}' cannot be read: {exc.strerror or exc}") from None
     except (ValueError, KeyError, TypeError, AttributeError) as exc:
         raise UsageError(f"ctllint: baseline '{path}' cannot be read: {exc}") from None
 

@@ -17,6 +17,7 @@ import traceback
 from typing import Any, Callable
 
 from . import __version__
+from .budget import CommandTimeout, command_budget, set_limit
 from .config import Config, ConfigError, find_config, load_config, resolve_rules
 from .host import PluginHost, RuleSettings
 from .model import Diagnostic, Severity
@@ -125,6 +126,7 @@ def setup(args: argparse.Namespace, trust_local: bool | None = None) -> tuple[Co
         print(f"ctllint: local plugins named in {where} not loaded (pass --plugins to run them): "
               f"{', '.join(printable(p) for p in cfg.plugins)}", file=sys.stderr)
         cfg.untrusted_plugins, cfg.plugins = cfg.plugins, []
+    set_limit(cfg.limits.command_seconds)
     host = PluginHost.create(local_plugins=cfg.plugins)
     if cfg.plugins:
         print(f"ctllint: loaded local plugins from {where}: {', '.join(printable(p) for p in cfg.plugins)}", file=sys.stderr)
@@ -233,7 +235,7 @@ def _configure_check(p: argparse.ArgumentParser) -> None:
     p.add_argument("--select", action="append", metavar="RULES", help="check only these rules or plugins (comma-separated; repeatable)")
     p.add_argument("--ignore", action="append", metavar="RULES", help="skip these rules or plugins (comma-separated; repeatable)")
     p.add_argument("--fail-on", choices=("error", "warning", "info"), help="lowest severity that makes the exit status 1 (default: error)")
-    p.add_argument("-j", "--jobs", type=int, metavar="N", help="check files in N processes (default: the number of cores)")
+    p.add_argument("-j", "--jobs", type=int, metavar="N", help="check files in N processes (default: jobs: in the configuration, else the number of cores)")
     p.add_argument("--no-cache", action="store_true", help="do not read or write the result cache")
     add_quiet_arg(p)
     p.add_argument("--baseline", metavar="FILE", help="report only findings not recorded in this baseline")
@@ -254,8 +256,9 @@ def _run_check(args: argparse.Namespace) -> int:
     paths = args.paths or ["."]
     from .progress import Meters
 
+    jobs = args.jobs if args.jobs is not None else cfg.jobs  # the command line, then the configuration's jobs:
     with Meters(args.quiet) as meters:
-        result = run_check(paths, cfg, host, settings, jobs=args.jobs, use_cache=not args.no_cache, progress=meters.start)
+        result = run_check(paths, cfg, host, settings, jobs=jobs, use_cache=not args.no_cache, progress=meters.start)
     note = None if args.no_safety_note or not cfg.safety_note else SAFETY_NOTE
     if result.missing:
         raise UsageError("ctllint: " + "; ".join(f"path '{m}' does not exist" for m in result.missing))
@@ -440,7 +443,8 @@ def _main(argv: list[str] | None) -> int:
         if not args.command:
             parser.print_help()
             return EXIT_USAGE
-        return COMMANDS[args.command][1](args)
+        with command_budget(args.command):
+            return COMMANDS[args.command][1](args)
     except UsageError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_USAGE
@@ -450,6 +454,9 @@ def _main(argv: list[str] | None) -> int:
     except Terminated:
         print("ctllint: terminated", file=sys.stderr)
         return 143  # 128 + SIGTERM, as a shell reports it
+    except CommandTimeout as exc:
+        print(f"ctllint: {exc}", file=sys.stderr)
+        return EXIT_FINDINGS
     except KeyboardInterrupt:
         print("ctllint: interrupted", file=sys.stderr)
         return 130

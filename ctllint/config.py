@@ -14,8 +14,8 @@ Keys::
       switch-fan-out: {severity: error, max_inductive: 2}
     plugins: [site_rules.py, tools/ctl_plugins/]   # local plugin paths
     exclude: ["legacy/**", "*.draft.ctl.yaml"]
-    limits: {max_file_bytes: 33554432, max_depth: 64, max_nodes: 4000000,
-             max_elements: 1000000, plugin_seconds: 60}
+    limits: {max_file_bytes: 33554432, max_depth: 64, max_nodes: 11184810,
+             max_elements: 1000000, plugin_seconds: 60, command_seconds: 300}
     cache: true            # or false, or a folder
     jobs: 2
     safety-note: true      # false leaves the safety note out of check's output
@@ -117,7 +117,10 @@ def _read_toml(path: str) -> tuple[dict[str, Any], dict[str, int]]:
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
         m = re.search(r"line (\d+)", str(exc))
         raise ConfigError(path, int(m.group(1)) if m else 1, f"TOML: {exc}") from None
-    data = doc.get("tool", {}).get("ctllint", {})
+    tool = doc.get("tool", {})
+    if not isinstance(tool, dict):
+        raise ConfigError(path, 1, "'tool' must be a table ([tool.ctllint] holds ctllint's settings)")
+    data = tool.get("ctllint", {})
     text = raw.decode("utf-8").splitlines()
     lines: dict[str, int] = {}
     section = ""
@@ -234,8 +237,10 @@ def _build(path: str, data: Any, lines: dict[str, int]) -> Config:
                 fail(f"limits.{k}", f"unknown limit '{k}' (allowed: {', '.join(known)})")
             if isinstance(v, bool) or not isinstance(v, (int, float)) or not v > 0:
                 fail(f"limits.{k}", f"limit '{k}' must be a positive number")
-            if not math.isfinite(v) and k != "plugin_seconds":
-                fail(f"limits.{k}", f"limit '{k}' must be a finite number (only plugin_seconds may be .inf, for no time limit)")
+            if not math.isfinite(v) and k not in ("plugin_seconds", "command_seconds"):
+                fail(f"limits.{k}", f"limit '{k}' must be a finite number (only plugin_seconds and command_seconds may be .inf, for no time limit)")
+            if isinstance(getattr(Limits(), k), int) and v != int(v):
+                fail(f"limits.{k}", f"limit '{k}' counts whole {'bytes' if 'bytes' in k else 'items'}: {v!r} is not a whole number")
             values[k] = type(getattr(Limits(), k))(v)
         cfg.limits = Limits(**values)
     if "cache" in data:

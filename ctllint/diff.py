@@ -40,8 +40,10 @@ import difflib
 import re
 from collections import Counter, defaultdict
 from dataclasses import dataclass, field, fields, is_dataclass
+from enum import Enum
 from typing import TYPE_CHECKING, Any, Iterable
 
+from .budget import work
 from .loader import LoadResult, load_file, load_text
 from .model import Diagnostic, Location, Quantity, Rung, Schematic, Step
 from .yamlsafe import Limits, MappingNode, Node, ScalarNode, SequenceNode, YamlProblem, compose, pos
@@ -449,6 +451,10 @@ def _matched_connections(old_edges: list[Edge], new_edges: list[Edge], translate
 # contact on every rung) is skipped when rarer ones exist, so that matching
 # stays near linear in the size of the file.
 _COMMON = 32
+# Rungs sharing a title are compared pair by pair while the pairs are at most
+# this many; a larger group (a thousand rungs titled "Spare") is matched
+# through shared elements and then in drawing order.
+_TITLE_PAIRS = 4096
 
 
 def _candidates(item: Any, keys: Iterable[Any], index: dict[Any, list[Any]]) -> set[Any]:
@@ -573,6 +579,19 @@ def semantic_diff(
     old_label: str = "",
     new_label: str = "",
 ) -> SchematicDiff:
+    """Compare two revisions: see ``_semantic_diff``; one unit of the command's time budget (``ctllint.budget``)."""
+    with work(f"the diff of {(new or old).path if (new or old) else 'two files'}"):
+        return _semantic_diff(old, new, old_findings, new_findings, old_label, new_label)
+
+
+def _semantic_diff(
+    old: Schematic | None,
+    new: Schematic | None,
+    old_findings: Iterable[Diagnostic] | None = None,
+    new_findings: Iterable[Diagnostic] | None = None,
+    old_label: str = "",
+    new_label: str = "",
+) -> SchematicDiff:
     """Compare two revisions of a schematic; None stands for a file that does not exist.
 
     Pass both revisions' findings (e.g. ``Checker.check_text(...).diagnostics``)
@@ -633,9 +652,8 @@ def _field_changes(names: Iterable[str], get_old, get_new, written_old, written_
 
 
 def _ordered_union(a: Iterable[str], b: Iterable[str]) -> list[str]:
-    out = list(dict.fromkeys(a))
-    out += [x for x in dict.fromkeys(b) if x not in out]
-    return out
+    first = dict.fromkeys(a)
+    return list(first) + [x for x in dict.fromkeys(b) if x not in first]
 
 
 def _supplies(old: Schematic | None, new: Schematic | None, so: _Source, sn: _Source) -> list[SupplyDiff]:
@@ -747,7 +765,21 @@ def _match_rungs(old: list[Rung], new: list[Rung], wires: _Wires) -> list[tuple[
         if r.title:
             titles[r.title.strip()][1].append(j)
     for olds, news in titles.values():
-        pick([(i, j) for i in olds for j in news], "title", None)
+        if len(olds) * len(news) <= _TITLE_PAIRS:
+            pick([(i, j) for i in olds for j in news], "title", None)
+            continue
+        # Many rungs under one title ("Spare", "Motor"): score only the pairs
+        # that share an element (found through their rarer names), then pair
+        # the rest in drawing order, so that the cost stays near linear.
+        group: dict[str, list[int]] = defaultdict(list)
+        for j in news:
+            for text in names_n[j]:
+                group[text].append(j)
+        pick([(i, j) for i in olds for j in sorted(_candidates(i, names_o[i], group))], "title", 1e-9)
+        for i, j in zip([i for i in olds if i not in used_o], [j for j in news if j not in used_n]):
+            used_o.add(i)
+            used_n.add(j)
+            pairs.append((old[i], new[j], "title"))
     # the same connections: paired in drawing order, without scoring
     same: dict[frozenset, list[int]] = defaultdict(list)
     for j in range(len(new)):
@@ -1055,6 +1087,12 @@ def _check(rev: Revision, checker: "Checker") -> list[Diagnostic]:
 
 
 def diff_revisions(old: Revision, new: Revision, checker: "Checker | None" = None, findings: bool = True) -> SchematicDiff:
+    """Load, check and compare two revisions: see ``_diff_revisions``; one unit of the command's time budget."""
+    with work(f"the diff of {new.path if new.exists else old.path}"):
+        return _diff_revisions(old, new, checker, findings)
+
+
+def _diff_revisions(old: Revision, new: Revision, checker: "Checker | None" = None, findings: bool = True) -> SchematicDiff:
     """Load (and, with a checker, check) two revisions and compare them.
 
     A revision that does not load gives status "unloadable": its format
@@ -1123,12 +1161,32 @@ def render_text(diffs: list[SchematicDiff], colour: bool = False) -> str:
         code = {"+": _GREEN, "-": _RED, "~": _YELLOW}[m]
         return paint(code, f"{m} {text}")
 
+    from .cli import printable
+
     lines: list[str] = []
     for d in diffs:
         if lines:
             lines.append("")
-        lines += _render_one(d, paint, mark)
+        lines += _render_one(_printable(d, printable), paint, mark)
     return "".join(line + "\n" for line in lines)
+
+
+def _printable(value: Any, printable) -> Any:
+    """``value`` with every text in it shown by ``printable``: names, titles, values and messages come
+    from the files, and control characters or bidirectional overrides in them must not reach a terminal."""
+    if isinstance(value, Enum):
+        return value
+    if isinstance(value, str):
+        return printable(value)
+    if isinstance(value, list):
+        return [_printable(v, printable) for v in value]
+    if isinstance(value, tuple):
+        return tuple(_printable(v, printable) for v in value)
+    if isinstance(value, dict):
+        return {_printable(k, printable): _printable(v, printable) for k, v in value.items()}
+    if is_dataclass(value) and not isinstance(value, type):
+        return type(value)(**{f.name: _printable(getattr(value, f.name), printable) for f in fields(value)})
+    return value
 
 
 def _render_one(d: SchematicDiff, paint, mark) -> list[str]:

@@ -41,11 +41,13 @@ All text uses a monospaced face, so a label's width is known exactly
 from __future__ import annotations
 
 import os
+import re
 from dataclasses import dataclass, field
 from typing import Iterable
-from xml.sax.saxutils import escape, quoteattr
+from xml.sax.saxutils import escape as _escape, quoteattr as _quoteattr
 
 from .kinds import INSTANT_PARTS, contact_sense
+from .budget import work
 from .model import Diagnostic, Element, Location, Rung, Schematic, Severity, Supply
 from .kinds import selector_parts
 from .terminals import Marks, assign as assign_terminals
@@ -122,6 +124,27 @@ RESISTIVE_KINDS = ("space-heater", "panel-heater", "resistor")
 
 # Letters for loads that are neither coils nor lamps (a circle with a letter).
 LOAD_LETTER = {"solenoid": "S", "horn": "H", "plc-input": "I"}
+
+
+# What a schematic's text may hold that must not reach the SVG as it is: characters
+# XML does not allow (the drawing would not open), other control characters and
+# bidirectional overrides (they would reorder or hide what is drawn). Shown
+# escaped, as Python writes them (``\x1b``).
+_UNSHOWN = re.compile("[\x00-\x1f\x7f-\x9f\u061c\u200e\u200f\u2028\u2029\u202a-\u202e\u2066-\u2069\ud800-\udfff\ufffe\uffff]")
+
+
+def _visible(text: str) -> str:
+    return _UNSHOWN.sub(lambda m: m.group().encode("unicode_escape", "backslashreplace").decode("ascii"), text)
+
+
+def escape(text: str) -> str:
+    """``text`` for an SVG element's content."""
+    return _escape(_visible(text))
+
+
+def quoteattr(text: str) -> str:
+    """``text`` as a quoted SVG attribute value."""
+    return _quoteattr(_visible(text))
 
 
 def text_width(text: str, size: float) -> float:
@@ -517,44 +540,147 @@ def _assign_rows(lay: RungLayout) -> None:
     lay.rows = max(rows.values()) + 1
 
 
+def _bits_between(lo: int, hi: int) -> int:
+    """Rows strictly between ``lo`` and ``hi``, as a bit mask."""
+    return ((1 << hi) - 1) & ~((1 << (lo + 1)) - 1) if hi - lo >= 2 else 0
+
+
+class _Ends:
+    """Per column: the rows where an interval ends there, and at which node, as bit masks."""
+
+    def __init__(self) -> None:
+        self.any: dict[int, int] = {}
+        self.node: dict[tuple[int, str], int] = {}
+        self.multi: dict[int, int] = {}
+
+    def add(self, c: int, node: str, bit: int) -> None:
+        anyc = self.any.get(c, 0)
+        own = self.node.get((c, node), 0)
+        if anyc & bit and not own & bit:
+            self.multi[c] = self.multi.get(c, 0) | bit
+        self.any[c] = anyc | bit
+        self.node[(c, node)] = own | bit
+
+    def other(self, c: int, node: str) -> int:
+        """Rows with an interval ending at column ``c`` at a node other than ``node``."""
+        own = self.node.get((c, node), 0)
+        return (self.any.get(c, 0) & ~own) | (self.multi.get(c, 0) & own)
+
+
 def _rows_in_order(lay: RungLayout, order: list[int]) -> dict[int, int]:
+    """Each path's row, the paths placed in ``order``, each on the first row where it fits.
+
+    Where a path fits on row r (r up to one past the last row; when none
+    fits, that new row):
+
+    1. it overlaps no interval on row r and touches one only at the same wire;
+    2. for each of its end wires (not a rail) already on other rows, no
+       interval strictly between r and those rows covers the wire's column
+       without ending at that wire (its connector would cross a line);
+    3. no wire (not a rail, not one of its ends) whose column it spans has a
+       connector across row r (rows above and below).
+
+    What each row holds is kept as bit masks over rows (per column, per
+    wire), so that finding the first row is a few mask operations, not a
+    scan of every row and every wire: near linear in the paths even when
+    a thousand parallel branches each need a row of their own.
+    """
     col = lay.column
     rails = {lay.hot, lay.common}
-    occupied: list[list[tuple[int, int, str, str]]] = []   # per row: (lo, hi, wire at lo, wire at hi)
-    wire_rows: dict[str, set[int]] = {}
+    count = 0                           # rows so far
+    interior: dict[int, int] = {}       # doubled column strictly inside an interval of non-zero length -> rows
+    points: dict[int, int] = {}         # doubled column of a zero-length interval -> rows
+    inside: dict[int, int] = {}         # column strictly inside an interval -> rows
+    zero: dict[int, list[tuple[int, str, str]]] = {}   # column -> zero-length intervals (bit, left node, right node)
+    starts, finishes, ends = _Ends(), _Ends(), _Ends()  # ends: both ends of intervals of non-zero length
+    low: dict[str, int] = {}            # node -> its lowest and highest row so far
+    high: dict[str, int] = {}
+    span: dict[str, int] = {}           # node (not a rail) -> rows strictly between its lowest and highest
+    colspan: dict[int, int] = {}        # column -> union of span of its nodes
+    spanners: dict[int, list[str]] = {}  # column -> nodes with a span
 
-    def fits(row: int, lo: int, hi: int, wlo: str, whi: str) -> bool:
-        if row < len(occupied):
-            for a, b, wa, wb in occupied[row]:
-                if lo < b and a < hi:
-                    return False
-                if (hi == a and whi != wa) or (lo == b and wlo != wb):
-                    return False
-        for w in (wlo, whi):
-            if w in rails:
-                continue
-            c = col[w]
-            for other in wire_rows.get(w, ()):
-                for between in range(min(other, row) + 1, max(other, row)):
-                    if between < len(occupied) and any(a <= c <= b and w not in (wa, wb) for a, b, wa, wb in occupied[between]):
-                        return False
-        for w, rs in wire_rows.items():
-            if w not in rails and min(rs) < row < max(rs) and lo <= col[w] <= hi and w not in (wlo, whi):
-                return False
-        return True
+    def crossing(w: str) -> int:
+        """Rows where a connector down or up to node ``w`` would cross a line (condition 2)."""
+        if w in rails or w not in low:
+            return 0
+        c = col[w]
+        b = inside.get(c, 0) | ends.other(c, w)
+        for bit, wa, wb in zero.get(c, ()):
+            if w not in (wa, wb):
+                b |= bit
+        if not b:
+            return 0
+        m, big_m = low[w], high[w]
+        blocked = 0
+        below = b & ((1 << big_m) - 1)
+        if below:  # r <= m: a row of b strictly between r and M
+            top = min(m, below.bit_length() - 2)
+            if top >= 0:
+                blocked |= (1 << (top + 1)) - 1
+        between = _bits_between(m, big_m)
+        inner = b & between
+        if inner:  # m < r < M: a row of b in (m, M) other than r
+            blocked |= between if inner & (inner - 1) else between & ~inner
+        above = (b >> (m + 1)) << (m + 1)
+        if above:  # r >= M: a row of b strictly between m and r
+            first = max(big_m, (above & -above).bit_length())
+            blocked |= ((1 << (count + 1)) - 1) & ~((1 << first) - 1)
+        return blocked
 
     rows: dict[int, int] = {}
     for i in order:
         rp = lay.paths[i]
         wlo, whi = rp.nodes[0], rp.nodes[-1]
         lo, hi = col[wlo], col[whi]
-        row = 0 if i == 0 else next((r for r in range(len(occupied) + 1) if fits(r, lo, hi, wlo, whi)), len(occupied))
-        while len(occupied) <= row:
-            occupied.append([])
-        occupied[row].append((lo, hi, wlo, whi))
+        if i == 0:
+            row = 0
+        else:
+            blocked = 0
+            if lo < hi:
+                for p in range(2 * lo + 1, 2 * hi):
+                    blocked |= interior.get(p, 0) | points.get(p, 0)
+            else:
+                blocked |= interior.get(2 * lo, 0)
+            blocked |= starts.other(hi, whi) | finishes.other(lo, wlo)
+            blocked |= crossing(wlo) | crossing(whi)
+            for c in range(lo, hi + 1):
+                if c in (lo, hi):
+                    for x in spanners.get(c, ()):
+                        if x not in (wlo, whi):
+                            blocked |= span[x]
+                else:
+                    blocked |= colspan.get(c, 0)
+            free = ~blocked & ((1 << (count + 1)) - 1)
+            row = (free & -free).bit_length() - 1 if free else count
+        bit = 1 << row
+        count = max(count, row + 1)
+        if lo < hi:
+            for p in range(2 * lo + 1, 2 * hi):
+                interior[p] = interior.get(p, 0) | bit
+            for c in range(lo + 1, hi):
+                inside[c] = inside.get(c, 0) | bit
+            ends.add(lo, wlo, bit)
+            ends.add(hi, whi, bit)
+        else:
+            points[2 * lo] = points.get(2 * lo, 0) | bit
+            zero.setdefault(lo, []).append((bit, wlo, whi))
+        starts.add(lo, wlo, bit)
+        finishes.add(hi, whi, bit)
         rows[i] = row
         for n in rp.nodes:
-            wire_rows.setdefault(n, set()).add(row)
+            if n not in low:
+                low[n] = high[n] = row
+            else:
+                low[n], high[n] = min(low[n], row), max(high[n], row)
+            if n in rails:
+                continue
+            mask = _bits_between(low[n], high[n])
+            if mask and mask != span.get(n, 0):
+                c = col[n]
+                if n not in span:
+                    spanners.setdefault(c, []).append(n)
+                span[n] = mask
+                colspan[c] = colspan.get(c, 0) | mask
     return rows
 
 
@@ -563,17 +689,23 @@ def _crossings(lay: RungLayout, rows: dict[int, int]) -> int:
     col = lay.column
     rails = {lay.hot, lay.common}
     wire_rows: dict[str, set[int]] = {}
+    on_row: dict[int, list[int]] = {}
     for i, rp in enumerate(lay.paths):
+        on_row.setdefault(rows[i], []).append(i)
         for n in rp.nodes:
             wire_rows.setdefault(n, set()).add(rows[i])
+    node_sets = [set(rp.nodes) for rp in lay.paths]
     count = 0
     for w, rs in wire_rows.items():
         if w in rails or len(rs) < 2:
             continue
         top, bottom = min(rs), max(rs)
-        for i, rp in enumerate(lay.paths):
-            if top < rows[i] < bottom and w not in rp.nodes and col[rp.nodes[0]] <= col[w] <= col[rp.nodes[-1]]:
-                count += 1
+        c = col[w]
+        for row in range(top + 1, bottom):
+            for i in on_row.get(row, ()):
+                rp = lay.paths[i]
+                if w not in node_sets[i] and col[rp.nodes[0]] <= c <= col[rp.nodes[-1]]:
+                    count += 1
     return count
 
 
@@ -817,6 +949,15 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
            finding_links: dict[Diagnostic, str] | None = None, header: bool = True,
            rungs: Iterable[int] | None = None, marks: dict[int, Mark] | None = None,
            min_columns: int = MIN_COLUMNS, kind_registry=None) -> Drawing:
+    """Lay out and draw ``sch``: see ``_layout``; one unit of the command's time budget (``ctllint.budget``)."""
+    with work(f"the drawing of {sch.path}"):
+        return _layout(sch, diagnostics, id_prefix, legend, finding_links, header, rungs, marks, min_columns, kind_registry)
+
+
+def _layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: str = "", legend: bool = True,
+            finding_links: dict[Diagnostic, str] | None = None, header: bool = True,
+            rungs: Iterable[int] | None = None, marks: dict[int, Mark] | None = None,
+            min_columns: int = MIN_COLUMNS, kind_registry=None) -> Drawing:
     """Lay out and draw ``sch`` with ``diagnostics`` marked on their elements.
 
     ``id_prefix`` starts every id in the SVG, so that several drawings can
@@ -905,12 +1046,17 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
                 for d in p.findings:
                     anchors.setdefault(d, p.anchor)
 
-    # Coils per row, for the cross-reference margin.
+    # The paths of each row (in path order), and the coils per row for the cross-reference margin.
+    by_row: dict[int, dict[int, list[RowPath]]] = {}
+    for lay in layouts:
+        rows_of_lay: dict[int, list[RowPath]] = {}
+        for rp in lay.paths:
+            rows_of_lay.setdefault(rp.row, []).append(rp)
+        by_row[id(lay)] = rows_of_lay
+
     def row_coils(lay: RungLayout, row: int) -> list[CoilUse]:
         out = []
-        for rp in lay.paths:
-            if rp.row != row:
-                continue
+        for rp in by_row[id(lay)].get(row, ()):
             for p in rp.placed:
                 if p.element.part == "coil" or (p.element.part, p.kind) in (("set", "latching-relay"), ("power", "safety-relay")):
                     out.append(uses.get(p.element.tag, CoilUse(p.element.tag, [], [])))
@@ -952,14 +1098,17 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
             if lay.rung.title or lay.rung.note:
                 y += CAPTION_HEIGHT
             lay.row_y = []
+            lowest: dict[str, int] = {}    # node -> the lowest row it is on
+            for rp in lay.paths:
+                for n in rp.nodes:
+                    lowest[n] = max(lowest.get(n, rp.row), rp.row)
             for row in range(lay.rows):
                 line_y = y + ROW_TOP
                 lay.row_y.append(line_y)
+                on_row = by_row[id(lay)].get(row, [])
                 # Rule-name lanes under the row.
                 labels = []
-                for rp in lay.paths:
-                    if rp.row != row:
-                        continue
+                for rp in on_row:
                     for p in rp.placed:
                         p.y = line_y
                         if p.mark is not None:
@@ -968,8 +1117,8 @@ def layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: st
                         for d in p.findings:
                             labels.append(_Lane(0, text_width(d.rule, SIZE_RULE), d.rule, d, p))
                 labels.sort(key=lambda lab: (lab.placed.cx, lab.diag.severity * -1 if lab.diag else -9, lab.text))
-                below = sorted({node_x(lay, n) for rp in lay.paths if rp.row == row for n in rp.nodes
-                                if n not in (lay.hot, lay.common) and any(o.row > row and n in o.nodes for o in lay.paths)})
+                below = sorted({node_x(lay, n) for rp in on_row for n in rp.nodes
+                                if n not in (lay.hot, lay.common) and lowest[n] > row})
                 lanes = _place_rule_labels(labels, below, rail_l + 6, rail_r - 6)
                 rule_labels[(id(lay), row)] = labels
                 bottom = line_y + ROW_BOTTOM + (LANE_FIRST - ROW_BOTTOM + 4 + (lanes - 1) * LANE_STEP if lanes else 0)

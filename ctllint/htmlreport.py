@@ -22,13 +22,19 @@ renumbered, is listed, not drawn.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from html import escape
+from html import escape as _escape
 from typing import Any
 
 from . import __version__
 from .diff import ADDED, APPEARED, CHANGED, MOVED, REMOVED, ElementDiff, RungDiff, SchematicDiff, ValueChange, changed_rungs
 from .draw import CHANGE_COLOUR, CHANGE_TINT, SEVERITY_COLOUR, SEVERITY_TINT, Drawing, Mark, layout
+from .draw import _visible
 from .model import Diagnostic, Schematic, Severity
+
+
+def escape(text: str, quote: bool = True) -> str:
+    """HTML-escaped, with control characters and bidirectional overrides shown escaped (``\x1b``), as in the drawings."""
+    return _escape(_visible(text), quote)
 from .report import SAFETY_NOTE
 
 

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import json
 import os
+import re
 import sys
 from typing import Iterable
 
@@ -73,8 +74,23 @@ _SARIF_LEVEL = {Severity.ERROR: "error", Severity.WARNING: "warning", Severity.I
 
 
 def _uri(path: str) -> str:
+    """A path as a relative URI reference: percent-encoded (RFC 3986), so that a name holding
+    ``#``, ``?``, ``%`` or a space points at that file and not at a part of another."""
+    from urllib.parse import quote
+
     p = path.replace(os.sep, "/")
-    return p[2:] if p.startswith("./") else p
+    p = p[2:] if p.startswith("./") else p
+    return quote(p.encode("utf-8", "surrogateescape"), safe="/")
+
+
+# Characters XML 1.0 does not allow at all (not even as a character reference):
+# control characters other than tab, line feed and carriage return, lone
+# surrogates, U+FFFE and U+FFFF. Written escaped, as Python writes them.
+_NOT_XML = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
+
+
+def xml_safe(text: str) -> str:
+    return _NOT_XML.sub(lambda m: m.group().encode("unicode_escape", "backslashreplace").decode("ascii"), text)
 
 
 def render_sarif(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule], note: str | None = SAFETY_NOTE) -> str:
@@ -126,7 +142,13 @@ def render_sarif(diagnostics: list[Diagnostic], files: list[str], rules: dict[st
 def render_junit(diagnostics: list[Diagnostic], files: list[str], rules: dict[str, Rule], note: str | None = SAFETY_NOTE) -> str:
     # Imported here: xml.sax.saxutils pulls in urllib, http and ssl, a cost
     # every start-up would pay for a format few runs ask for.
-    from xml.sax.saxutils import escape, quoteattr
+    from xml.sax.saxutils import escape as _escape, quoteattr as _quoteattr
+
+    def escape(text: str) -> str:
+        return _escape(xml_safe(text))
+
+    def quoteattr(text: str) -> str:
+        return _quoteattr(xml_safe(text))
 
     by_file: dict[str, list[Diagnostic]] = {f: [] for f in files}
     for d in diagnostics:

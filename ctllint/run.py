@@ -332,13 +332,19 @@ def dependents(device_files: list[str], exclude: list[str], base: str | None, ma
     """Schematics in the repository that ``use`` any of ``device_files``.
 
     pre-commit passes only the files that changed; when a shared device
-    file changes, the schematics built on it must be checked too.
+    file changes, the schematics built on it must be checked too. Each
+    repository is listed and each schematic in it read once, however many
+    device files changed (listed in the order of ``device_files``).
     """
-    out: list[Target] = []
-    for device_file in device_files:
-        root = find_repository_root(device_file)
-        name = os.path.basename(device_file)
-        real = os.path.realpath(device_file)
+    hits: list[list[Target]] = [[] for _ in device_files]
+    by_root: dict[str, list[int]] = {}
+    for k, device_file in enumerate(device_files):
+        by_root.setdefault(find_repository_root(device_file), []).append(k)
+    for root, ks in by_root.items():
+        names = {os.path.basename(device_files[k]) for k in ks}
+        by_real: dict[str, list[int]] = {}
+        for k in ks:
+            by_real.setdefault(os.path.realpath(device_files[k]), []).append(k)
         candidates, _ = discover([root], exclude, base)
         for t in candidates:
             if not _regular_file(t.path) or _size(t.path) > max_bytes:  # as check would refuse it: not read
@@ -348,14 +354,19 @@ def dependents(device_files: list[str], exclude: list[str], base: str | None, ma
                     text = handle.read()
             except OSError:
                 continue
-            if "use" not in text or name not in text:
+            if "use" not in text or not any(name in text for name in names):
                 continue
+            folder = os.path.dirname(t.path)
             for line in text.splitlines():
-                if name in line:
-                    for token in line.replace("[", " ").replace("]", " ").replace(",", " ").replace('"', " ").replace("'", " ").split():
-                        if token.endswith(SCHEMATIC_SUFFIXES) and os.path.realpath(os.path.join(os.path.dirname(t.path), token)) == real:
-                            out.append(t)
-    return out
+                if not any(name in line for name in names):
+                    continue
+                for token in line.replace("[", " ").replace("]", " ").replace(",", " ").replace('"', " ").replace("'", " ").split():
+                    if not token.endswith(SCHEMATIC_SUFFIXES):
+                        continue
+                    for k in by_real.get(os.path.realpath(os.path.join(folder, token)), ()):
+                        if os.path.basename(device_files[k]) in line:
+                            hits[k].append(t)
+    return [t for found in hits for t in found]
 
 
 def _is_device_file(path: str) -> bool:
@@ -382,7 +393,8 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     targets, missing = discover(paths, cfg.exclude, base)
     if missing:
         return RunResult([], [], missing)
-    named_files = [t.path for t in targets if os.path.isfile(t.path) and any(os.path.abspath(t.path) == os.path.abspath(p) for p in paths)]
+    named = {os.path.abspath(p) for p in paths}
+    named_files = [t.path for t in targets if os.path.abspath(t.path) in named and os.path.isfile(t.path)]
     device_files = [p for p in named_files if _is_device_file(p)]
     if device_files:
         known = {os.path.abspath(t.path) for t in targets}

@@ -57,6 +57,10 @@ def read_bytes(path: str, limits: Limits | None = None) -> bytes:
     return data
 
 
+# A path git can be asked about: within what a file system names (PATH_MAX).
+_GIT_PATH_MAX = 4096
+
+
 def git_blob(sha: str, rel: str, cwd: str, limits: Limits | None = None) -> bytes | None:
     """The blob at ``sha:rel`` (None when there is none); a ReadProblem when it passes the size limit.
 
@@ -64,9 +68,12 @@ def git_blob(sha: str, rel: str, cwd: str, limits: Limits | None = None) -> byte
     """
     limits = limits or Limits()
     spec = f"{sha}:{rel}"
-    if "\0" in spec or "\n" in spec:
+    if "\0" in spec or "\n" in spec or len(spec.encode("utf-8", "surrogateescape")) > _GIT_PATH_MAX:
+        return None  # a path git cannot be asked about: the loader reports the entry as missing
+    try:
+        size = subprocess.run(["git", "cat-file", "-s", spec], cwd=cwd, capture_output=True)
+    except (OSError, ValueError):  # an argument the system refuses
         return None
-    size = subprocess.run(["git", "cat-file", "-s", spec], cwd=cwd, capture_output=True)
     if size.returncode != 0:
         return None
     try:

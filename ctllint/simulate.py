@@ -62,7 +62,7 @@ from __future__ import annotations
 import math
 from collections import deque
 from dataclasses import dataclass, field
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, Iterator
 
 from .circuit import _gc_paused, path_text
 from .kinds import INSTANT_PARTS, contact_sense
@@ -573,12 +573,24 @@ class Simulator:
     @_gc_paused
     def run_scenario(self, scenario: Scenario) -> list[ScenarioEvent]:
         """Run an ``expect`` scenario from rest; report failed checks and the first unsettled step."""
-        events: list[ScenarioEvent] = []
+        return [ev for _, step_events in self.scenario_steps(scenario) for ev in step_events]
+
+    def scenario_steps(self, scenario: Scenario) -> Iterator[tuple[int | None, list[ScenarioEvent]]]:
+        """Run a scenario from rest one step at a time, as ``run_scenario`` does.
+
+        Yields ``(None, events)`` once at rest, then ``(index, events)``
+        after each step, the simulator left in the state after that step
+        (``states()``); it stops after an unsettled step (or rest). A
+        caller showing every step's states runs the scenario once, in time
+        linear in its steps.
+        """
         rest = self.reset()
         if not rest.settled:
-            events.append(self._unsettled(None, None, scenario.loc, rest))
-            return events
+            yield None, [self._unsettled(None, None, scenario.loc, rest)]
+            return
+        yield None, []
         for index, step in enumerate(scenario.steps):
+            events: list[ScenarioEvent] = []
             action = step.action
             if action == "check":
                 for tag, expected in step.targets.items():
@@ -596,6 +608,7 @@ class Simulator:
                                 actual=actual,
                             )
                         )
+                yield index, events
                 continue
             if action == "wait":
                 result = self.wait(step.seconds)
@@ -609,8 +622,9 @@ class Simulator:
                 result = self._settle()
             if not result.settled:
                 events.append(self._unsettled(step, index, step.loc, result))
-                break
-        return events
+                yield index, events
+                return
+            yield index, events
 
     @staticmethod
     def _unsettled(step: Step | None, index: int | None, loc: Location, result: StepResult) -> ScenarioEvent:

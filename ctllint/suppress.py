@@ -27,12 +27,68 @@ class Suppression:
     used: set[str]
 
 
+_BLOCK_SCALAR = re.compile(r"(?:^|[\s:])[|>][-+0-9]*\s*$")
+
+
+def comment_starts(lines: list[str]) -> list[int]:
+    """For each line, where its YAML comment starts (-1: none).
+
+    A ``#`` starts a comment only outside quoted scalars (which may run
+    over several lines) and block scalars (``|``, ``>``: their lines are
+    text), at the start of a line or after a space or tab.
+    """
+    out: list[int] = []
+    quote = ""          # the open quote of a flow scalar running on, if any
+    block = -1          # the indentation a block scalar's lines must exceed, while in one
+    for line in lines:
+        indent = len(line) - len(line.lstrip(" "))
+        if block >= 0:
+            if not line.strip() or indent > block:
+                out.append(-1)
+                continue
+            block = -1
+        start = -1
+        i, n = 0, len(line)
+        last = ""       # the last character outside quotes that is not a space
+        while i < n:
+            c = line[i]
+            if quote == '"':
+                if c == "\\":
+                    i += 1
+                elif c == '"':
+                    quote = ""
+            elif quote == "'":
+                if c == "'":
+                    if i + 1 < n and line[i + 1] == "'":
+                        i += 1
+                    else:
+                        quote = ""
+            elif c == "#" and (i == 0 or line[i - 1] in " \t"):
+                start = i
+                break
+            elif c in "\"'" and last in ("", ":", ",", "[", "{", "-", "?"):
+                quote = c
+            elif c not in " \t":
+                last = c
+            i += 1
+        out.append(start)
+        if not quote and _BLOCK_SCALAR.search(line[:start] if start >= 0 else line):
+            body = line.lstrip(" ")
+            while body.startswith("- "):
+                body = body[2:].lstrip(" ")
+            block = len(line) - len(body) if ":" in line[: start if start >= 0 else n] else indent
+    return out
+
+
 def find_suppressions(lines: list[str]) -> dict[int, Suppression]:
     found: dict[int, Suppression] = {}
+    if not any(MARKER in text for text in lines):
+        return found
+    starts = comment_starts(lines)
     for i, text in enumerate(lines, start=1):
-        if MARKER not in text:
+        if MARKER not in text or starts[i - 1] < 0:
             continue
-        m = _COMMENT.search(text)
+        m = _COMMENT.search(text, max(0, starts[i - 1] - 1))
         if not m:
             continue
         rules = [r.strip() for r in re.split(r"[,\s]+", m.group("rules") or "") if r.strip()]

@@ -35,9 +35,17 @@ class Limits:
 
     max_file_bytes: int = 32 * 1024 * 1024
     max_depth: int = 64
-    max_nodes: int = 4_000_000  # after alias expansion
+    max_nodes: int = 0  # after alias expansion; 0: a third of max_file_bytes (see __post_init__)
     max_elements: int = 1_000_000
     plugin_seconds: float = 60.0  # per file for all rules together; a stopped rule gives the rest one more period
+    command_seconds: float = 300.0  # per drawing, per file's diff, per simulation (draw, report, diff, simulate)
+
+    def __post_init__(self) -> None:
+        # A file of ordinary rungs holds a value for every 7 bytes or so, and plain YAML
+        # cannot be denser than one for every 2 ("a,"): a third of the bytes admits every
+        # file max_file_bytes admits short of the densest, and still stops an alias bomb.
+        if not self.max_nodes:
+            object.__setattr__(self, "max_nodes", max(1, self.max_file_bytes // 3))
 
 
 STD = "tag:yaml.org,2002:"
@@ -281,12 +289,38 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
         raise YamlProblem(line, col, message) from None
     except YAMLError as exc:
         first = str(exc).splitlines()[0] if str(exc) else "invalid YAML"
-        raise YamlProblem(1, 1, f"YAML: {first}") from None
+        line, col = _reader_position(text, exc)
+        raise YamlProblem(line, col, f"YAML: {first}") from None
     except RecursionError:
         raise YamlProblem(1, 1, f"YAML nesting is too deep to read (limit {limits.max_depth} levels)") from None
     if root is not None and isinstance(root, ScalarNode) and root.plain and root.value in _NULL:
         return None
     return root
+
+
+def _reader_position(text: str, exc: Exception) -> tuple[int, int]:
+    """Line and column (1-based, in characters) of the character a reader error is about.
+
+    The reader reports an offset, not a mark: in UTF-8 bytes from the C
+    parser, in characters from the pure-Python one. The offset is taken as
+    the one that points at the character named; 1:1 when neither does.
+    """
+    position, character = getattr(exc, "position", None), getattr(exc, "character", None)
+    if not isinstance(position, int) or position < 0:
+        return 1, 1
+    index = None
+    try:
+        head = len(text.encode("utf-8", "surrogatepass")[:position].decode("utf-8", "surrogatepass"))
+    except UnicodeDecodeError:  # not at a character boundary: not a byte offset
+        head = -1
+    for candidate in (head, position):
+        if 0 <= candidate < len(text) and (character is None or not isinstance(character, int) or ord(text[candidate]) == character):
+            index = candidate
+            break
+    if index is None:
+        return 1, 1
+    line_start = text.rfind("\n", 0, index) + 1
+    return text.count("\n", 0, index) + 1, index - line_start + 1
 
 
 def check_tree(root: Node, limits: Limits) -> None:

@@ -9,11 +9,19 @@ one or more worker processes, and saves every input that breaks a property:
 - no input runs longer than ``--hang-seconds`` of CPU (the rules' own limit
   is ``limits.plugin_seconds``; this catches hangs outside the rules);
 - the worker does not die (a crash of the interpreter is saved too);
-- with ``--strict``, no rule raises (``plugin-error`` "raised"/"did not finish").
+- with ``--strict``, no rule raises (``plugin-error`` "raised"/"did not finish");
+- with ``--commands all``, each input also goes through draw, report, xref,
+  simulate (from rest, and its first scenario) and diff (against its base, as
+  text and JSON): no traceback, exit status 0 or 1, a well-formed SVG, JSON
+  that parses, and nothing from the file reaching the terminal raw. The
+  ``--hang-seconds`` and ``--memory-mb`` bounds then cover all the commands
+  of one input together (the commands' own ``limits.command_seconds`` is set
+  in the workspace's configuration).
 
 Usage::
 
     python tests/fuzz_campaign.py --seconds 300 --jobs 2 --out /tmp/ctllint-fuzz
+    python tests/fuzz_campaign.py --seconds 300 --jobs 2 --commands all --out /tmp/ctllint-fuzz-all
     python tests/fuzz_campaign.py --inputs 5000 --seed 1 --out failures/
     python tests/fuzz_campaign.py --replay failures/fail-000123.ctl.yaml
 
@@ -85,6 +93,10 @@ def worker(args: argparse.Namespace) -> int:
             loaded += rc in (0, 1) and '"rule": "format"' not in out
             if args.strict:
                 problems += [f"rule failed: {m}" for m in _plugin_crashes(tf, out)]
+            if args.commands == "all":
+                for name, argv in tf.other_commands(ws, base, path):
+                    rc, out, err = tf.run_cli(argv)
+                    problems += tf.other_problems(name, argv, rc, out, err)
         except Hang:
             problems = [f"hang: more than {args.hang_seconds} s of CPU"]
         except MemoryError:
@@ -129,6 +141,7 @@ def campaign(args: argparse.Namespace) -> int:
             cmd += ["--inputs", str(per_worker)]
         if args.strict:
             cmd.append("--strict")
+        cmd += ["--commands", args.commands]
         procs.append((w, subprocess.Popen(cmd, stdout=subprocess.PIPE, text=True, env={**os.environ, "PYTHONHASHSEED": "0"})))
     import queue
     import threading
@@ -212,6 +225,8 @@ def main() -> int:
     p.add_argument("--seed", type=int, default=0, help="first seed (default 0)")
     p.add_argument("--jobs", type=int, default=1, help="worker processes (default 1)")
     p.add_argument("--strict", action="store_true", help="also count a rule that raises (plugin-error) as a failure")
+    p.add_argument("--commands", choices=("check", "all"), default="check",
+                   help="check only (default), or every input also through draw, report, xref, simulate and diff")
     p.add_argument("--plugin-seconds", type=float, default=10.0, help="limits.plugin_seconds for the checks (default 10)")
     p.add_argument("--hang-seconds", type=float, default=60.0, help="CPU seconds one input may use (default 60)")
     p.add_argument("--slow-seconds", type=float, default=5.0, help="report inputs slower than this (default 5)")

@@ -22,6 +22,7 @@ import json
 import math
 import os
 import random
+import re
 import shutil
 from contextlib import redirect_stderr, redirect_stdout
 from dataclasses import dataclass
@@ -624,7 +625,7 @@ class Workspace:
         os.makedirs(os.path.join(folder, ".git"), exist_ok=True)  # the repository root for `use`
         self.config = os.path.join(folder, ".ctllint.yaml")
         with open(self.config, "w", encoding="utf-8") as handle:
-            handle.write(f"# fuzzing: default rules, a shorter time limit\nlimits: {{plugin_seconds: {plugin_seconds}}}\n")
+            handle.write(f"# fuzzing: default rules, shorter time limits\nlimits: {{plugin_seconds: {plugin_seconds}, command_seconds: {4 * plugin_seconds + 30}}}\n")
 
     def place(self, base: Base, data: bytes) -> str:
         for rel in base.used:
@@ -686,6 +687,83 @@ def problems_with(rc: int, out: str, err: str, path: str, data: bytes) -> list[s
     if STRICT:
         found += [f"a rule failed: {m}" for m in rule_failures(doc)]
     return found
+
+
+# -- the commands other than check ----------------------------------------------------
+
+# What a file may hold that must not reach a terminal raw (see ctllint.cli.printable).
+_RAW = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f\u061c\u200e\u200f\u2028\u2029\u202a-\u202e\u2066-\u2069]")
+
+
+def other_commands(ws: Workspace, base: Base, path: str) -> list[tuple[str, list[str]]]:
+    """(name, argv) of every command besides check, run on the file at ``path`` (its base is the old side of diff)."""
+    original = os.path.join(ws.folder, "original", os.path.basename(path))
+    os.makedirs(os.path.dirname(original), exist_ok=True)
+    with open(original, "w", encoding="utf-8") as handle:
+        handle.write(base.text)
+    out = os.path.join(ws.folder, "out")
+    os.makedirs(out, exist_ok=True)
+    cfg = ["--config", ws.config]
+    runs = [
+        ("draw", ["draw", *cfg, path, "-o", os.path.join(out, "d.svg")]),
+        ("report", ["report", *cfg, path, "-o", os.path.join(out, "r.html")]),
+        ("xref", ["xref", *cfg, path]),
+        ("simulate", ["simulate", *cfg, path, "--layout", "steps"]),
+        ("diff", ["diff", *cfg, original, path]),
+        ("diff-json", ["diff", *cfg, "--format", "json", "--no-findings", path, original]),
+    ]
+    from ctllint.loader import load_file
+
+    try:
+        sch = load_file(path).schematic
+    except Exception:  # noqa: BLE001 - the commands themselves are what is tested
+        sch = None
+    if sch is not None and sch.expect and sch.expect[0].name:
+        runs.append(("simulate-scenario", ["simulate", *cfg, path, "--scenario", sch.expect[0].name, "--layout", "loads"]))
+    return runs
+
+
+def other_problems(name: str, argv: list[str], rc: int, out: str, err: str) -> list[str]:
+    """What is wrong with a command's answer: a traceback, an exit status it never gives, output that is not
+    what it says, control characters from the file reaching the terminal."""
+    found = []
+    allowed = (0, 1, 2) if name.startswith("simulate-scenario") else (0, 1)  # a scenario naming unknown tags is a usage error
+    if rc not in allowed:
+        found.append(f"{name}: exit status {rc}")
+    if "Traceback" in err or "internal error" in err:
+        found.append(f"{name}: traceback:\n" + err[-4000:])
+    if found:
+        return found
+    if name == "draw" and rc == 0:
+        target = argv[argv.index("-o") + 1]
+        try:
+            import xml.dom.minidom
+
+            xml.dom.minidom.parse(target)
+        except Exception as exc:  # noqa: BLE001
+            found.append(f"draw: the SVG is not well-formed XML: {exc}")
+    if name == "report" and not os.path.exists(argv[argv.index("-o") + 1]):
+        found.append("report: no page written")
+    if name == "diff-json":
+        try:
+            json.loads(out)
+        except ValueError:
+            found.append(f"diff --format json: output is not JSON: {out[:300]!r}")
+    elif name in ("xref", "simulate", "simulate-scenario", "diff"):
+        raw = _RAW.search(out)
+        if raw:
+            found.append(f"{name}: {raw.group()!r} reaches the terminal raw: {out[max(0, raw.start() - 80):raw.start() + 80]!r}")
+    return found
+
+
+def assert_commands_sound(workspace: Workspace, base: Base, data: bytes, capsys) -> None:
+    path = workspace.place(base, data)
+    for name, argv in other_commands(workspace, base, path):
+        capsys.readouterr()
+        rc = main(argv)
+        out, err = capsys.readouterr()
+        found = other_problems(name, argv, rc, out, err)
+        assert not found, f"{base.rel} mutated to {data[:2000]!r}:\n" + "\n".join(found)
 
 
 # CTLLINT_FUZZ_STRICT=1 also fails on a rule that raised or ran out of time (a
@@ -766,6 +844,20 @@ def test_circuit_mutations(workspace, capsys, base, rng):
     m = Mutator(rng, SUITE_GROW)
     data = m.dump(m.mutate_circuit(json.loads(json.dumps(base.data))))
     assert_sound(workspace, base, data.encode("utf-8", "surrogatepass"), capsys)
+
+
+@settings(FUZZ_SETTINGS, max_examples=20)
+@given(base=st.sampled_from(BASES), rng=st.randoms(use_true_random=False))
+def test_other_commands(workspace, capsys, base, rng):
+    """draw, report, xref, simulate and diff on mutated files: no traceback, well-formed SVG and
+    JSON, nothing from the file reaching the terminal raw. Their time is bounded by
+    limits.command_seconds in the workspace's configuration."""
+    m = Mutator(rng, SUITE_GROW)
+    if rng.random() < 0.5:
+        data = m.dump(m.mutate_circuit(json.loads(json.dumps(base.data)))).encode("utf-8", "surrogatepass")
+    else:
+        data = m.mutate(base)
+    assert_commands_sound(workspace, base, data, capsys)
 
 
 @settings(FUZZ_SETTINGS, max_examples=60)

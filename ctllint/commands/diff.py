@@ -74,7 +74,8 @@ git integration (git diff shows this diff for schematics):
   (git calls the driver with: path old-file old-hex old-mode new-file new-hex
   new-mode; /dev/null stands for the missing side of an added or deleted file)
 
-exit status: 0 whatever changed, 2 usage error (missing file, bad revision).
+exit status: 0 whatever changed, 1 a file's diff ran past limits.command_seconds,
+2 usage error (missing file, bad revision).
 """
 
 
@@ -280,8 +281,13 @@ class _RevisionTree:
             used_rel = os.path.normpath(os.path.join(os.path.dirname(rel), used)).replace(os.sep, "/")
             if used_rel.startswith("../") or os.path.isabs(used_rel):
                 continue
+            if not _git_path(used_rel):
+                continue  # the loader reports the entry; git is not asked for it
             if not os.path.exists(os.path.join(self.root, *used_rel.split("/"))):
-                self._put(used_rel)
+                try:
+                    self._put(used_rel)
+                except OSError:  # a name the file system refuses: the loader reports the entry as missing
+                    continue
         return target
 
 
@@ -311,6 +317,16 @@ def _use_entries(data: bytes) -> list[str]:
 def _is_device_file(data: bytes) -> bool:
     keys = _peek(data)[0]
     return "devices" in keys and not keys & {"supplies", "rungs", "expect", "use"}
+
+
+# A path git can be asked about: no NUL (an argument cannot hold one), within
+# what a file system names (PATH_MAX), so that a ``use`` entry written to be
+# hostile is reported by the loader rather than crashing the command.
+_GIT_PATH_MAX = 4096
+
+
+def _git_path(rel: str) -> bool:
+    return bool(rel) and "\0" not in rel and len(rel.encode("utf-8", "surrogateescape")) <= _GIT_PATH_MAX
 
 
 def _read(rel: str, sha: str | None, top: str, limits: Limits | None = None) -> bytes | None:

@@ -8,7 +8,9 @@ import pathlib
 import shutil
 import sys
 
-from ..cli import EXIT_FINDINGS, EXIT_OK, UsageError, exit_note, add_config_args, add_plugins_arg, add_quiet_arg, command, settings_for, setup, split_names, write_output
+from ..budget import work
+from ..cli import (EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_plugins_arg, add_quiet_arg, command, exit_note, printable,
+                   printable_diagnostic, settings_for, setup, split_names, write_output)
 from ..discover import discover, display_path
 from ..engine import Checker
 from ..loader import LoadResult, load_file
@@ -39,7 +41,7 @@ def _refuse_unloadable(loaded: LoadResult) -> int | None:
     """Print a file's format findings when it does not load; the exit status to return."""
     if loaded.schematic is not None:
         return None
-    sys.stderr.write(render_text(sorted(loaded.diagnostics), [], {}))
+    sys.stderr.write(render_text(sorted(printable_diagnostic(d) for d in loaded.diagnostics), [], {}))
     print("ctllint: the file does not load; fix the findings above first", file=sys.stderr)
     return EXIT_FINDINGS
 
@@ -66,7 +68,8 @@ Elements carry ids and data attributes (id="el-12", data-element="M1.coil",
 data-line="14", data-rung="3") for tools that read the drawing.
 
 exit status: 0 drawn, 1 the file does not load (its format findings are
-printed), 2 usage or configuration error.
+printed) or the work ran past limits.command_seconds, 2 usage or
+configuration error.
 """
 
 
@@ -82,9 +85,14 @@ def _configure_draw(p: argparse.ArgumentParser) -> None:
 
 
 def _run_draw(args: argparse.Namespace) -> int:
+    loaded, shown, cfg, host = _one_file(args, args.path)
+    with work(f"checking and drawing {shown}"):
+        return _draw(args, loaded, shown, cfg, host)
+
+
+def _draw(args: argparse.Namespace, loaded: LoadResult, shown: str, cfg, host) -> int:
     from ..draw import layout
 
-    loaded, shown, cfg, host = _one_file(args, args.path)
     refused = _refuse_unloadable(loaded)
     if refused is not None:
         return refused
@@ -130,8 +138,10 @@ examples:
 
 exit status, as for 'ctllint check': 0 when no finding is at or above
 --fail-on (default error), 1 when one is (the page is written either
-way), 2 usage or configuration error, a bad revision, or --changes-since
-outside a git working tree (no page is written).
+way; also when a file's check, drawing or diff ran past
+limits.command_seconds, and then no page is written), 2 usage or
+configuration error, a bad revision, or --changes-since outside a git
+working tree (no page is written).
 """
 
 
@@ -166,8 +176,9 @@ def _run_report(args: argparse.Namespace) -> int:
     with Meters(args.quiet) as meters:  # on a terminal: files checked, then files drawn, of the total
         meter = meters.start(len(targets)) if meters.start else None
         for t in targets:
-            result = checker.check_file(t.path, display_path=t.shown)
-            loaded = load_file(t.path, host.kinds, cfg.limits, checker.device_cache, display_path=t.shown)
+            with work(f"checking {t.shown}"):
+                result = checker.check_file(t.path, display_path=t.shown)
+                loaded = load_file(t.path, host.kinds, cfg.limits, checker.device_cache, display_path=t.shown)
             files.append(FileReport(t.shown, loaded.schematic, result.diagnostics))
             if meter:
                 meter.advance(1)
@@ -431,6 +442,7 @@ def render_xref(rows: list[dict[str, str]]) -> str:
     heads = {"coil": "COIL", "kind": "KIND", "rung": "COIL RUNG", "no": "NO USED (RUNGS)", "nc": "NC USED (RUNGS)", "terminals": "TERMINALS", "available": "AVAILABLE", "status": ""}
     if not rows:
         return "no relay, timer, contactor or starter in this file\n"
+    rows = [{k: printable(text) for k, text in r.items()} for r in rows]  # tags are the file's text: no terminal control
     keys = list(heads)
     widths = {k: max(len(heads[k]), *(len(r[k]) for r in rows)) for k in keys}
     lines = ["  ".join(heads[k].ljust(widths[k]) for k in keys).rstrip()]
@@ -479,8 +491,9 @@ or --scenario NAME to run one of the file's expect scenarios.
 Cells: ON energized, - not energized; * marks a load this step changed.
 
 exit status: 0 every step settled and every check held, 1 a step did not
-settle, a check failed or the file does not load, 2 usage error (an
-unknown tag, a bad step, an unknown scenario).
+settle, a check failed, the file does not load or the run passed
+limits.command_seconds, 2 usage error (an unknown tag, a bad step, an
+unknown scenario).
 
 example:
   ctllint simulate press.ctl.yaml --step press:PB2 --step release:PB2 \\
@@ -595,15 +608,16 @@ def step_text(step: Step) -> str:
 def simulate_rows(sim, steps: list[Step]) -> tuple[list[str], list[dict]]:
     """Run ``steps`` from rest; one row per state: step text, load states, notes.
 
-    Each row replays the steps so far through ``Simulator.run_scenario``, so
-    the states shown are exactly what an expect scenario of those steps sees.
+    The steps run once through ``Simulator.scenario_steps``, the scenario
+    runner itself, so the states shown are exactly what an expect scenario
+    of those steps sees, in time linear in the steps.
     """
     rows = []
     loads: list[str] = []
     previous: dict[str, bool] = {}
-    for n in range(len(steps) + 1):
-        scen = Scenario("command line", Location("<command line>", 0, 0), steps[:n])
-        events = sim.run_scenario(scen)
+    scen = Scenario("command line", Location("<command line>", 0, 0), list(steps))
+    for at, events in sim.scenario_steps(scen):
+        n = 0 if at is None else at + 1
         states = sim.states()
         if not loads:
             loads = list(states)
@@ -631,12 +645,23 @@ def simulate_rows(sim, steps: list[Step]) -> tuple[list[str], list[dict]]:
     return loads, rows
 
 
+def _shown_rows(loads: list[str], rows: list[dict]) -> tuple[list[str], list[dict]]:
+    """Tags, step texts and notes with control characters and bidirectional overrides escaped (they come from the file)."""
+    shown = [printable(t) for t in loads]
+    out = []
+    for r in rows:
+        out.append({**r, "step": printable(r["step"]), "notes": [printable(n) for n in r["notes"]],
+                    "states": {printable(t): s for t, s in r["states"].items()}, "changed": {printable(t) for t in r["changed"]}})
+    return shown, out
+
+
 def _cell(row: dict, tag: str) -> str:
     return ("ON" if row["states"].get(tag) else "-") + ("*" if tag in row["changed"] else "")
 
 
 def render_steps_table(loads: list[str], rows: list[dict]) -> str:
     """Rows are steps, columns are loads, a notes column last."""
+    loads, rows = _shown_rows(loads, rows)
     step_w = max(len("STEP"), *(len(r["step"]) for r in rows))
     widths = [max(len(t), 3) for t in loads]
     head = f"{'#':>2}  {'STEP':<{step_w}}  " + "  ".join(f"{t:<{w}}" for t, w in zip(loads, widths)) + "  NOTES"
@@ -649,6 +674,7 @@ def render_steps_table(loads: list[str], rows: list[dict]) -> str:
 
 def render_loads_table(loads: list[str], rows: list[dict]) -> str:
     """Rows are loads, columns are steps (numbered; the steps and notes listed above)."""
+    loads, rows = _shown_rows(loads, rows)
     out = ["steps:"]
     for i, r in enumerate(rows):
         out.append(f"  {i:>2}  {r['step']}" + (f"   {'; '.join(r['notes'])}" if r["notes"] else ""))
@@ -661,9 +687,14 @@ def render_loads_table(loads: list[str], rows: list[dict]) -> str:
 
 
 def _run_simulate(args: argparse.Namespace) -> int:
+    loaded, shown, cfg, host = _one_file(args, args.path)
+    with work(f"simulating {shown}"):
+        return _simulate(args, loaded, shown)
+
+
+def _simulate(args: argparse.Namespace, loaded: LoadResult, shown: str) -> int:
     from ..circuit import Circuit
 
-    loaded, shown, cfg, host = _one_file(args, args.path)
     refused = _refuse_unloadable(loaded)
     if refused is not None:
         return refused
@@ -684,7 +715,7 @@ def _run_simulate(args: argparse.Namespace) -> int:
         steps = [parse_step(text, i, sch, sim) for i, text in enumerate(args.step)]
     loads, rows = simulate_rows(sim, steps)
     if not loads:
-        print(f"{shown}: no loads to show (no coil, solenoid, light, horn or PLC input in the rungs)")
+        print(f"{printable(shown)}: no loads to show (no coil, solenoid, light, horn or PLC input in the rungs)")
         return EXIT_OK
     by_steps = render_steps_table(loads, rows)
     by_loads = render_loads_table(loads, rows)
@@ -695,7 +726,7 @@ def _run_simulate(args: argparse.Namespace) -> int:
         grid_w = len(by_steps.splitlines()[0]) - len("NOTES") + 12
         loads_w = max(len(line) for line in by_loads.splitlines() if line and not line.startswith(" "))
         choice = "steps" if grid_w <= columns or grid_w <= loads_w else "loads"
-    title = f"{shown}" + (f": scenario '{args.scenario}'" if args.scenario is not None else "")
+    title = printable(f"{shown}" + (f": scenario '{args.scenario}'" if args.scenario is not None else ""))
     sys.stdout.write(title + "\n" + (by_steps if choice == "steps" else by_loads))
     sys.stdout.write("ON energized, - not energized, * changed by this step\n")
     return EXIT_OK if all(r["ok"] for r in rows) else EXIT_FINDINGS

@@ -19,7 +19,7 @@ import time
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, HERE)
-from generate import lattice, motor_circuits  # noqa: E402
+from generate import lattice, long_scenario, motor_circuits, parallel_branches, repeated_titles  # noqa: E402
 
 PY = sys.executable
 
@@ -76,6 +76,38 @@ def in_process(path: str, repeats: int) -> float:
         "print(best)\n"
     )
     out = subprocess.run([PY, "-c", code, path, str(repeats)], capture_output=True, text=True)
+    if out.returncode != 0:
+        raise SystemExit(out.stderr[-2000:])
+    return float(out.stdout.strip().splitlines()[-1])
+
+
+# Work of the commands other than check, timed in a process already started (best of the repeats):
+# a drawing, a diff of two revisions, a simulation of a file's first scenario.
+WORK = {
+    "draw": ("from ctllint.draw import layout\n"
+             "sch = load_file(sys.argv[1]).schematic\n"
+             "run = lambda: layout(sch)\n"),
+    "diff": ("from ctllint.diff import semantic_diff\n"
+             "old, new = load_file(sys.argv[1]).schematic, load_file(sys.argv[2]).schematic\n"
+             "run = lambda: semantic_diff(old, new)\n"),
+    "simulate": ("from ctllint.circuit import Circuit\n"
+                 "from ctllint.commands.view import simulate_rows\n"
+                 "sch = load_file(sys.argv[1]).schematic\n"
+                 "run = lambda: simulate_rows(Circuit(sch).simulator(), list(sch.expect[0].steps))\n"),
+}
+
+
+def work_in_process(kind: str, paths: list[str], repeats: int) -> float:
+    code = (
+        "import gc, sys, time\n"
+        "gc.disable()\n"
+        "from ctllint.loader import load_file\n"
+        + WORK[kind]
+        + "run()\n"
+        "best = min((lambda t: (run(), time.perf_counter() - t)[1])(time.perf_counter()) for _ in range(int(sys.argv[-1])))\n"
+        "print(best)\n"
+    )
+    out = subprocess.run([PY, "-c", code, *paths, str(repeats)], capture_output=True, text=True)
     if out.returncode != 0:
         raise SystemExit(out.stderr[-2000:])
     return float(out.stdout.strip().splitlines()[-1])
@@ -138,6 +170,17 @@ def main() -> None:
     t_terms = best(ctllint("export", "terminals", "-o", os.devnull, big), repeats, env=nocache)
     rows.append(("export: wire list / check, 1,000 circuits", f"{t_wires:.3f} s / {t_big:.3f} s", f"{t_wires / t_big:.2f}", "<= 1.00"))
     rows.append(("export: terminal plan / check, 1,000 circuits", f"{t_terms:.3f} s / {t_big:.3f} s", f"{t_terms / t_big:.2f}", "<= 1.00"))
+    # The other commands on files built to be slow: ten times the input, about ten times the work.
+    par_s, par_b = write("par100.ctl.yaml", parallel_branches(100)), write("par1000.ctl.yaml", parallel_branches(1000))
+    t_s, t_b = work_in_process("draw", [par_s], repeats + 2), work_in_process("draw", [par_b], repeats)
+    rows.append(("draw: 1,000 / 100 parallel branches (start-up subtracted)", f"{t_b:.3f} s / {t_s:.3f} s", f"{t_b / t_s:.2f}", "<= 12"))
+    rep = {(n, c): write(f"rep{n}{c}.ctl.yaml", repeated_titles(n, c)) for n in (200, 2000) for c in ("NO", "NC")}
+    t_s = work_in_process("diff", [rep[(200, "NO")], rep[(200, "NC")]], repeats + 2)
+    t_b = work_in_process("diff", [rep[(2000, "NO")], rep[(2000, "NC")]], repeats)
+    rows.append(("diff: 2,000 / 200 rungs all titled alike (start-up subtracted)", f"{t_b:.3f} s / {t_s:.3f} s", f"{t_b / t_s:.2f}", "<= 12"))
+    sim_s, sim_b = write("sim200.ctl.yaml", long_scenario(200)), write("sim2000.ctl.yaml", long_scenario(2000))
+    t_s, t_b = work_in_process("simulate", [sim_s], repeats + 2), work_in_process("simulate", [sim_b], repeats)
+    rows.append(("simulate: 2,000 / 200 steps (start-up subtracted)", f"{t_b:.3f} s / {t_s:.3f} s", f"{t_b / t_s:.2f}", "<= 12"))
 
     # Cache: a second run over the unchanged file.
     shutil.rmtree(os.path.join(tmp, "cache"), ignore_errors=True)

@@ -9,6 +9,16 @@ result obeys every rule, so a check does all its work and reports nothing.
 sections with cross-links between the two strings; the number of simple
 paths grows exponentially with n while the file grows linearly.
 
+``parallel_branches(n)``: one coil fed through any of n limit switches in
+parallel, each branch on a row of its own in the drawing.
+
+``repeated_titles(n, contact)``: n relay rungs all titled "Spare", each
+relay sealed in through its own ``contact`` (NO or NC): two revisions
+differ in every rung while the titles tell none apart.
+
+``long_scenario(n)``: a start/stop circuit with an expect scenario of n
+steps (start, check, stop, wait in turn).
+
 Run: python tests/benchmarks/generate.py motors 1000 > line.ctl.yaml
      python tests/benchmarks/generate.py lattice 200 -o lattice.ctl.yaml
 """
@@ -85,6 +95,60 @@ def lattice(n: int) -> str:
     paths.append(f"      - [{prev_a}, CR0.NO, c, CR0.coil, X2]")
     paths.append(f"      - [{prev_b}, LS0.NO, c]")
     out += paths
+    return "\n".join(out) + "\n"
+
+
+def parallel_branches(n: int) -> str:
+    out = [
+        "ctllint: 1",
+        f"title: Any of {n} switches",
+        "supplies:",
+        "  ctl: {hot: L1, common: X2, voltage: 120 VAC}",
+        "devices:",
+        "  CR0: {kind: relay, coil: 120 VAC}",
+    ]
+    out += [f"  LS{i}: {{kind: limit-switch}}" for i in range(1, n + 1)]
+    out += ["rungs:", "  - title: Any switch", "    paths:", "      - [L1, LS1.NO, 1, CR0.coil, X2]"]
+    out += [f"      - [L1, LS{i}.NO, 1]" for i in range(2, n + 1)]
+    return "\n".join(out) + "\n"
+
+
+def repeated_titles(n: int, contact: str = "NO") -> str:
+    out = [
+        "ctllint: 1",
+        f"title: {n} spare relays",
+        "supplies:",
+        "  ctl: {hot: L1, common: X2, voltage: 120 VAC}",
+        "devices:",
+    ]
+    out += [f"  CR{i}: {{kind: relay, coil: 120 VAC}}" for i in range(1, n + 1)]
+    out.append("rungs:")
+    for i in range(1, n + 1):
+        out += ["  - title: Spare", "    paths:", f"      - [L1, CR{i}.{contact}, w{i}, CR{i}.coil, X2]"]
+    return "\n".join(out) + "\n"
+
+
+def long_scenario(n: int) -> str:
+    out = [
+        "ctllint: 1",
+        "title: Start and stop, over and over",
+        "supplies:",
+        "  ctl: {hot: L1, common: X2, voltage: 120 VAC}",
+        "devices:",
+        "  PB1: {kind: pushbutton, function: stop}",
+        "  PB2: {kind: pushbutton, function: start}",
+        "  CR1: {kind: relay, coil: 120 VAC}",
+        "rungs:",
+        "  - title: Run relay",
+        "    paths:",
+        "      - [L1, PB1.NC, 2, PB2.NO, 3, CR1.coil, X2]",
+        "      - [2, CR1.NO, 3]",
+        "expect:",
+        "  - name: start and stop",
+        "    steps:",
+    ]
+    cycle = ["press: PB2", "release: PB2", "check: {CR1: on}", "press: PB1", "release: PB1", "check: {CR1: off}", "wait: 1 s"]
+    out += [f"      - {cycle[k % len(cycle)]}" for k in range(n)]
     return "\n".join(out) + "\n"
 
 
