@@ -37,10 +37,10 @@ CONTACT_PARTS = ("NO", "NC", *INSTANT_PARTS)
 
 
 def contact_sense(part: str | None) -> str | None:
-    """"NO" or "NC" for a contact part (``instant-NO`` is an NO contact), else None."""
-    if part in ("NO", "instant-NO"):
+    """"NO" or "NC" for a contact part (``instant-NO`` and ``fault-NO`` are NO contacts), else None."""
+    if part in ("NO", "instant-NO", "fault-NO"):
         return "NO"
-    if part in ("NC", "instant-NC"):
+    if part in ("NC", "instant-NC", "fault-NC"):
         return "NC"
     return None
 
@@ -83,6 +83,7 @@ class DeviceKind:
     positions: bool = False  # selector: one part per position
     contact_parts: tuple[str, ...] = ()  # parts other than NO/NC that are contacts (an alternating relay's A, B)
     coil_parts: tuple[str, ...] = ()  # coils with names of their own instead of ``coil`` (a latching relay's set, reset)
+    optional_coils: tuple[str, ...] = ()  # of coil_parts, those a circuit may leave out (a drive's stop input)
     doc: str = ""
     plugin: str = "core"
 
@@ -320,6 +321,36 @@ BUILTIN_KINDS += (
         coil_parts=("power", "ch1", "ch2", "feedback"),
         doc="power, ch1, ch2 and feedback inputs; NO safety outputs, NC auxiliary contacts",
     ),
+)
+
+
+# A variable-frequency drive or a soft starter: it feeds and protects its motor (motor-overload accepts it).
+# Its run and stop command inputs are electronic loads of a few milliamperes on the control supply; it
+# runs while its run input is energized (and its stop input, where drawn, is energized too: a stop input
+# is wired through the stop button's NC contact) and it has not tripped. NO/NC are its run relay's
+# contacts (closed while it runs), fault-NO/fault-NC its fault relay's (worked in ``expect`` by
+# ``trip: TAG``, which also stops it).
+_DRIVE_FIELDS = {
+    "coil": FieldSpec(VOLTAGE, doc="rated voltage of its command inputs"),
+    "current": FieldSpec(CURRENT, doc="current drawn by one command input (a few mA)"),
+    "feeds": FieldSpec(TAG, tag_kinds=("motor",), doc="the motor it runs and protects"),
+    **_CONTACT_FIELDS,
+}
+BUILTIN_KINDS += tuple(
+    DeviceKind(
+        name,
+        dict(_DRIVE_FIELDS),
+        parts=("run", "stop", "NO", "NC", "fault-NO", "fault-NC"),
+        coil=True,
+        coil_parts=("run", "stop"),
+        optional_coils=("stop",),
+        contact_parts=("fault-NO", "fault-NC"),
+        doc=doc,
+    )
+    for name, doc in (
+        ("drive", "variable-frequency drive: run/stop inputs, run relay NO/NC, fault relay fault-NO/fault-NC"),
+        ("soft-starter", "soft starter: run/stop inputs, run relay NO/NC, fault relay fault-NO/fault-NC"),
+    )
 )
 
 

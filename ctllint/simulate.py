@@ -81,11 +81,12 @@ _SWITCH_KINDS = {
     "flow-switch",
     "foot-switch",
 }
-_TRIPPABLE = {"overload", "fuse", "breaker"}
+_TRIPPABLE = {"overload", "fuse", "breaker", "drive", "soft-starter"}
+_DRIVES = ("drive", "soft-starter")  # run while run (and stop, where drawn) inputs are on and not tripped
 # Kinds whose contacts are never worked by hand (a relay whose coil is in no
 # rung keeps its contacts at rest).
 _NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter", "alternating-relay", "latching-relay",
-                 "safety-relay"}
+                 "safety-relay", *_DRIVES}
 _EPS = 1e-9
 _MAX_ITERATIONS = 10_000
 _MAX_TIMER_EVENTS = 100_000
@@ -177,6 +178,8 @@ class Simulator:
         # and the feedback loop are on together, and stop as soon as power or a channel drops.
         self._safety_tags = [t for t in self._load_tags if self._kind.get(t) == "safety-relay"]
         self._latch_coils: set[tuple[str, str | None]] = set()
+        self._drive_tags = [t for t in self._load_tags if self._kind.get(t) in _DRIVES]
+        self._drive_stop = {el.tag for el in self._loads if el.tag in self._drive_tags and el.part == "stop"}
         for tag, dev in sch.devices.items():
             kind = dev.kind
             if kind == "selector":
@@ -237,13 +240,14 @@ class Simulator:
             state[0], state[1] = False, 0
         self.latched = {t: False for t in self._latch_tags}
         self.started = {t: False for t in self._safety_tags}
+        self.running = {t: False for t in self._drive_tags}
         self.time = 0.0
         self._energized = {t: False for t in self._load_tags}
 
     def _key(self) -> tuple:
         return (tuple(self.moved[t] for t in self._relays) + tuple((tm.coil, tm.out) for tm in self._timers.values())
                 + tuple(tuple(st) for st in self._alternators.values()) + tuple(self.latched[t] for t in self._latch_tags)
-                + tuple(self.started[t] for t in self._safety_tags))
+                + tuple(self.started[t] for t in self._safety_tags) + tuple(self.running[t] for t in self._drive_tags))
 
     def _closed(self, el: Element) -> bool:
         role, tag, part = el.role, el.tag, el.part
@@ -263,7 +267,12 @@ class Simulator:
         if tag in self._alternators:
             on, turn = self._alternators[tag]
             return on and part == ("A", "B")[turn]
-        if tag in self.latched:
+        if kind in _DRIVES:
+            if part in ("fault-NO", "fault-NC"):
+                active = self.tripped.get(tag, False)
+            else:
+                active = self._running(tag)
+        elif tag in self.latched:
             active = self.latched[tag]
         elif tag in self.started:
             active = self.started[tag]
@@ -279,6 +288,10 @@ class Simulator:
             active = self.actuated.get(tag, False)
         sense = contact_sense(part)
         return active if sense == "NO" else not active if sense == "NC" else False
+
+    def _running(self, tag: str) -> bool:
+        """Whether a drive or soft starter runs (its run relay's contacts moved)."""
+        return self.running.get(tag, False)
 
     def _union(self) -> tuple[dict[str, str], Any]:
         """Wires joined through closed non-load elements in the present state."""
@@ -296,7 +309,7 @@ class Simulator:
                 a, b = find(el.left), find(el.right)
                 if (a, b) in pairs or (b, a) in pairs:
                     state[el.tag] = True
-                    if el.tag in self.latched or el.tag in self.started:
+                    if el.tag in self.latched or el.tag in self.started or el.tag in self._drive_stop or el.tag in self._drive_tags:
                         coils.add((el.tag, el.part))
         self._energized = state
         self._latch_coils = coils
@@ -308,6 +321,13 @@ class Simulator:
             on = self._energized.get(tag, False)
             if self.moved[tag] != on:
                 self.moved[tag] = on
+                changed = True
+        for tag in self._drive_tags:  # runs: run input on, stop input on where drawn, not tripped
+            on = self._latch_coils
+            run = ((tag, "run") in on and (tag not in self._drive_stop or (tag, "stop") in on)
+                   and not self.tripped.get(tag, False))
+            if run != self.running[tag]:
+                self.running[tag] = run
                 changed = True
         for tag in self._safety_tags:
             on = self._latch_coils
@@ -445,6 +465,8 @@ class Simulator:
             return self.latched[tag]
         if tag in self.started:
             return self.started[tag]
+        if tag in self._drive_tags:
+            return self._running(tag)
         if tag in self._energized:
             return self._energized[tag]
         if tag in self.actuated:

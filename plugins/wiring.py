@@ -304,7 +304,8 @@ def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
     # A kind with coils of its own names (a latching relay's set and reset) needs every one of them drawn.
     drawn = {(el.tag, el.part) for el in sch.elements if el.role == K.LOAD}
     for tag in {el.tag for el in sch.elements if el.role == K.LOAD and el.part != "coil"}:
-        named = K.coil_parts(_kind(sch.devices.get(tag)) if tag in sch.devices else None)
+        kind = _kind(sch.devices.get(tag)) if tag in sch.devices else None
+        named = tuple(p for p in K.coil_parts(kind) if p not in kind.optional_coils) if kind else ()
         if named and named != ("coil",) and all((tag, part) in drawn for part in named):
             coils.add(tag)
     # A coil drawn as a part the kind lacks (the bare tag M1, or M1.Coil) is
@@ -322,7 +323,7 @@ def check_coil_missing(ctx: CheckContext) -> Iterator[Finding]:
         if dev is None or not _has_coil(dev):
             continue
         reported.add(el.tag)
-        named = K.coil_parts(_kind(dev))
+        named = tuple(p for p in K.coil_parts(_kind(dev)) if p not in _kind(dev).optional_coils)
         if named and named != ("coil",):
             missing = [f"{el.tag}.{p}" for p in named if (el.tag, p) not in drawn]
             yield Finding(
