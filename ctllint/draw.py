@@ -118,6 +118,9 @@ CHANGE_DASH = {"removed": "6 3", "moved-from": "6 3", "added": "", "moved-to": "
 
 # A safety relay's inputs, written in their box.
 SAFETY_INPUT_TEXT = {"power": "PWR", "ch1": "CH1", "ch2": "CH2", "feedback": "FB"}
+# A drive's or soft starter's command inputs: a box marked with the input and the kind (a drive's
+# box carries a sine-wave tilde as IEC 60617 marks a converter, a soft starter's a ramp, our own sketch).
+DRIVE_INPUT_TEXT = {"run": "RUN", "stop": "STP"}
 
 # Resistive loads, drawn as a rectangle (heaters with a zigzag inside).
 RESISTIVE_KINDS = ("space-heater", "panel-heater", "resistor")
@@ -336,7 +339,7 @@ def coil_uses(sch: Schematic) -> dict[str, CoilUse]:
     numbers = {r.index: r.number for r in sch.rungs}
     uses: dict[str, CoilUse] = {}
     for el in sch.elements:
-        sense = contact_sense(el.part)
+        sense = contact_sense(el.part) if el.part not in ("fault-NO", "fault-NC") else None  # a drive's fault relay: listed apart
         if sense is not None:
             uses.setdefault(el.tag, CoilUse(el.tag, [], []))
             (uses[el.tag].no if sense == "NO" else uses[el.tag].nc).append(numbers[el.rung])
@@ -801,6 +804,13 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
         elif kind == "safety-relay":  # a safety relay's inputs: a box named after the input
             svg.add(f'<rect class="symfill" x="{_n(cx - 12)}" y="{_n(y - 12)}" width="24" height="24"/>')
             svg.text(cx, y + 3, SAFETY_INPUT_TEXT.get(part or "", "?"), "termno", "middle")
+        elif kind in ("drive", "soft-starter") and part in DRIVE_INPUT_TEXT:
+            svg.add(f'<rect class="symfill" x="{_n(cx - 12)}" y="{_n(y - 12)}" width="24" height="24"/>')
+            svg.text(cx, y + 9, DRIVE_INPUT_TEXT[part], "termno", "middle")
+            if kind == "drive":
+                svg.add(f'<path class="sym" d="M{_n(cx - 7)} {_n(y - 4)} q3.5 -5 7 0 t7 0"/>')
+            else:
+                svg.line(cx - 7, y - 2, cx + 7, y - 8, "sym")
         elif part in ("set", "reset") and kind == "latching-relay":  # a latching relay's two coils: S and R
             svg.text(cx, y + 4, "S" if part == "set" else "R", "letter", "middle")
         elif part != "coil":
@@ -1058,7 +1068,8 @@ def _layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: s
         out = []
         for rp in by_row[id(lay)].get(row, ()):
             for p in rp.placed:
-                if p.element.part == "coil" or (p.element.part, p.kind) in (("set", "latching-relay"), ("power", "safety-relay")):
+                if p.element.part == "coil" or (p.element.part, p.kind) in (("set", "latching-relay"), ("power", "safety-relay"),
+                                                                            ("run", "drive"), ("run", "soft-starter")):
                     out.append(uses.get(p.element.tag, CoilUse(p.element.tag, [], [])))
         return out
 

@@ -86,6 +86,9 @@ def _function_of(el: Element, kind_name: str, positions: bool) -> str | None:
 # A safety relay module's inputs as such modules commonly mark them (common practice, from memory).
 _SAFETY_INPUTS = {"power": ("A1", "A2"), "ch1": ("S11", "S12"), "ch2": ("S21", "S22"), "feedback": ("Y1", "Y2")}
 
+# A drive's or soft starter's command inputs: no standard marks them alike (our own marks, named for the input).
+_DRIVE_INPUTS = {"run": ("RUN+", "RUN-"), "stop": ("STP+", "STP-")}
+
 _FUNCTION_DIGITS = {"NC": ("1", "2"), "NO": ("3", "4"), "timed-NC": ("5", "6"), "timed-NO": ("7", "8")}
 
 
@@ -125,6 +128,8 @@ def assign(sch: Schematic, kinds: KindRegistry | None = None) -> dict[int, Marks
                 marks[el.index] = Marks("A1", "A2")
             elif el.part == "reset" and "reset" in kind.coil_parts:
                 marks[el.index] = Marks("B1", "B2")  # a second coil (a latching relay's reset), from memory
+            elif kind.name in ("drive", "soft-starter") and el.part in _DRIVE_INPUTS:
+                marks[el.index] = Marks(*_DRIVE_INPUTS[el.part])
             elif kind.name == "safety-relay" and el.part in _SAFETY_INPUTS:
                 marks[el.index] = Marks(*_SAFETY_INPUTS[el.part])
             elif el.part is None and kind.name == "pilot-light":

@@ -386,7 +386,7 @@ def xref_rows(sch: Schematic, coil_kinds: set[str], kinds=None) -> list[dict[str
     coil_rung: dict[str, list[int]] = {}
     terminals: dict[str, dict[str, list[tuple[int, int, str]]]] = {}
     for el in sch.elements:
-        if el.part == "coil" or (el.part in ("set", "power") and el.role == "load"):  # a latching relay's set coil, a safety relay's power
+        if el.part == "coil" or (el.part in ("set", "power", "run") and el.role == "load"):  # a latching relay's set coil, a safety relay's power, a drive's run input
             coil_rung.setdefault(el.tag, []).append(numbers[el.rung])
         m = marks.get(el.index)
         if m is not None and el.part in ("coil", "set", "reset", "NO", "NC"):
