@@ -819,12 +819,14 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
         elif kind == "timer":  # a timer coil: a clock hand inside the circle
             svg.line(cx, y, cx, y - 7, "sym")
             svg.line(cx, y, cx + 5, y, "sym")
-    elif role == "conductor" and kind == "breaker":
+    elif role == "conductor" and kind in ("breaker", "motor-breaker"):
         svg.line(cx - h, y, cx - 11, y, "sym")
         svg.line(cx + 11, y, cx + h, y, "sym")
         svg.add(f'<circle class="symfill" cx="{_n(cx - 9)}" cy="{_n(y)}" r="2.2"/>')
         svg.add(f'<circle class="symfill" cx="{_n(cx + 9)}" cy="{_n(y)}" r="2.2"/>')
         svg.add(f'<path class="sym" d="M{_n(cx - 10)} {_n(y - 4)} Q{_n(cx)} {_n(y - 16)} {_n(cx + 10)} {_n(y - 4)}"/>')
+        if kind == "motor-breaker":  # its overload release: a small thermal bend under the arc (our own sketch)
+            svg.add(f'<path class="sym" d="M{_n(cx - 5)} {_n(y + 6)} h4 v-4 h2 v4 h4"/>')
     elif role == "conductor":  # fuse: a small rectangle with the wire through it
         svg.line(cx - h, y, cx + h, y, "sym")
         svg.add(f'<rect class="sym" x="{_n(cx - 11)}" y="{_n(y - 5)}" width="22" height="10"/>')

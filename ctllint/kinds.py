@@ -38,9 +38,9 @@ CONTACT_PARTS = ("NO", "NC", *INSTANT_PARTS)
 
 def contact_sense(part: str | None) -> str | None:
     """"NO" or "NC" for a contact part (``instant-NO`` and ``fault-NO`` are NO contacts), else None."""
-    if part in ("NO", "instant-NO", "fault-NO"):
+    if part in ("NO", "instant-NO", "fault-NO", "trip-NO"):
         return "NO"
-    if part in ("NC", "instant-NC", "fault-NC"):
+    if part in ("NC", "instant-NC", "fault-NC", "trip-NC"):
         return "NC"
     return None
 
@@ -225,7 +225,9 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
     ),
     DeviceKind("plc-input", {"voltage": FieldSpec(VOLTAGE), "current": FieldSpec(CURRENT)}, bare="load"),
     DeviceKind("fuse", {"rating": FieldSpec(CURRENT), "side": FieldSpec(TEXT, choices=("primary", "secondary"))}, bare="conductor"),
-    DeviceKind("breaker", {"rating": FieldSpec(CURRENT), "side": FieldSpec(TEXT, choices=("primary", "secondary"))}, bare="conductor"),
+    DeviceKind("breaker", {"rating": FieldSpec(CURRENT), "side": FieldSpec(TEXT, choices=("primary", "secondary")),
+                           "contacts": FieldSpec(CONTACTS, doc="auxiliary contacts (NO/NC, open when tripped)")},
+               bare="conductor", parts=("NO", "NC")),
     DeviceKind(
         "transformer",
         {
@@ -351,6 +353,31 @@ BUILTIN_KINDS += tuple(
         ("drive", "variable-frequency drive: run/stop inputs, run relay NO/NC, fault relay fault-NO/fault-NC"),
         ("soft-starter", "soft starter: run/stop inputs, run relay NO/NC, fault relay fault-NO/fault-NC"),
     )
+)
+
+
+# A motor-protective circuit breaker: a breaker (the bare TAG, a conductor) with an adjustable overload
+# ``setting`` checked like an overload relay's (overload-setting) on the motor it ``feeds``, which it
+# protects (motor-overload); auxiliary contacts NO/NC follow its handle (open when tripped), trip-NO /
+# trip-NC its trip-alarm contact (moved only by a trip). An ordinary breaker may carry NO/NC auxiliary
+# contacts too; used bare it stays a conductor.
+BUILTIN_KINDS += (
+    DeviceKind(
+        "motor-breaker",
+        {
+            "rating": FieldSpec(CURRENT, doc="frame or rated current"),
+            "setting": FieldSpec(CURRENT, doc="overload current setting (the dial)"),
+            "trip_multiple": FieldSpec(NUMBER, doc="ultimate trip current / setting (default 1.20, IEC 60947-4-1)"),
+            "starting_allowance": FieldSpec(BOOL, doc="set above NEC 430.32(A)(1) because the motor would not start (430.32(C))"),
+            "feeds": FieldSpec(TAG, tag_kinds=("motor",), doc="the motor it protects"),
+            "contacts": FieldSpec(CONTACTS, doc="how many auxiliary contacts it provides"),
+            "contact_rating": FieldSpec(RATING, doc="rating of its auxiliary and trip-alarm contacts"),
+        },
+        parts=("NO", "NC", "trip-NO", "trip-NC"),
+        bare="conductor",
+        contact_parts=("trip-NO", "trip-NC"),
+        doc="breaker with an overload setting: bare TAG a conductor; NO/NC auxiliary, trip-NO/trip-NC trip-alarm contacts",
+    ),
 )
 
 

@@ -1189,7 +1189,7 @@ def _closest(word: str, options: tuple[str, ...]) -> str | None:
     return found[0] if found else None
 
 
-_TRIPPABLE = ("overload", "fuse", "breaker", "drive", "soft-starter")  # a drive's trip: its fault relay
+_TRIPPABLE = ("overload", "fuse", "breaker", "drive", "soft-starter", "motor-breaker")  # a drive's trip: its fault relay
 
 
 def _step_problem(action: str, kind: DeviceKind, dev: Device, value: Any) -> str | None:
@@ -1200,7 +1200,7 @@ def _step_problem(action: str, kind: DeviceKind, dev: Device, value: Any) -> str
     if action == "release":
         return None if kind.mechanical else "release works a pushbutton, switch or selector"
     if action in ("trip", "reset"):
-        return None if kind.name in _TRIPPABLE else f"{action} works an overload, fuse, breaker, drive or soft starter"
+        return None if kind.name in _TRIPPABLE else f"{action} works an overload, fuse, breaker, motor breaker, drive or soft starter"
     if action == "check":
         readable = kind.coil or kind.bare in (K.LOAD, K.OUTPUT)  # loads, and what a PLC output is told
         return None if readable else "check reads a load (a coil, solenoid, pilot light, horn or PLC input) or a PLC output"

@@ -81,12 +81,12 @@ _SWITCH_KINDS = {
     "flow-switch",
     "foot-switch",
 }
-_TRIPPABLE = {"overload", "fuse", "breaker", "drive", "soft-starter"}
+_TRIPPABLE = {"overload", "fuse", "breaker", "drive", "soft-starter", "motor-breaker"}
 _DRIVES = ("drive", "soft-starter")  # run while run (and stop, where drawn) inputs are on and not tripped
 # Kinds whose contacts are never worked by hand (a relay whose coil is in no
 # rung keeps its contacts at rest).
 _NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter", "alternating-relay", "latching-relay",
-                 "safety-relay", *_DRIVES}
+                 "safety-relay", *_DRIVES, "breaker", "motor-breaker"}
 _EPS = 1e-9
 _MAX_ITERATIONS = 10_000
 _MAX_TIMER_EVENTS = 100_000
@@ -267,7 +267,10 @@ class Simulator:
         if tag in self._alternators:
             on, turn = self._alternators[tag]
             return on and part == ("A", "B")[turn]
-        if kind in _DRIVES:
+        if kind in ("breaker", "motor-breaker"):  # auxiliary contacts follow the handle; trip-alarm only a trip
+            tripped = self.tripped.get(tag, False)
+            active = tripped if part in ("trip-NO", "trip-NC") else not tripped
+        elif kind in _DRIVES:
             if part in ("fault-NO", "fault-NC"):
                 active = self.tripped.get(tag, False)
             else:

@@ -590,8 +590,8 @@ def _protected_motors(ctx) -> dict[str, list[tuple[Device, Device]]]:
     by_overload: dict[str, list[tuple[Device, Device]]] = {}
     seen: set[tuple[str, str, str | None]] = set()
     for device in ctx.devices.values():
-        overload = device.get("overload")
-        if device.kind not in _CONTACTOR_KINDS or not isinstance(overload, str):
+        overload = device.tag if device.kind == "motor-breaker" else device.get("overload")  # its own overload
+        if device.kind not in (*_CONTACTOR_KINDS, "motor-breaker") or not isinstance(overload, str):
             continue
         motor = ctx.devices.get(device.get("feeds") or "")
         key = (overload, motor.tag if motor is not None else "", device.get("speed"))
@@ -617,12 +617,12 @@ def check_overload_setting(ctx) -> Iterator[Finding]:
     index = _protected_motors(ctx)
     for overload in ctx.devices.values():
         setting = overload.get("setting")
-        if overload.kind != "overload" or not isinstance(setting, Quantity):
+        if overload.kind not in ("overload", "motor-breaker") or not isinstance(setting, Quantity):
             continue
         multiple = overload.get("trip_multiple")
         trip = ultimate_trip_current(setting.value, multiple if isinstance(multiple, float) else None)
         dial = (
-            f"overload {overload.tag} is set at {_amps(setting.value)}, an ultimate trip current of {_amps(trip)} "
+            f"{'overload' if overload.kind == 'overload' else 'motor-protective breaker'} {overload.tag} is set at {_amps(setting.value)}, an ultimate trip current of {_amps(trip)} "
             f"({'x ' + format(multiple, 'g') + ' as given' if isinstance(multiple, float) else 'x 1.2, IEC 60947-4-1'})"
         )
         allowance = overload.get("starting_allowance") is True
