@@ -330,7 +330,9 @@ XREF_HELP = """\
 For each relay, timer, contactor and starter: the rung of its coil, the
 rungs where its NO and NC contacts are used, and the contacts used against
 those its 'contacts' field declares ("available: not declared" when the
-field is absent). A contact used twice in one rung is listed twice.
+field is absent). A contact used twice in one rung is listed twice. A
+timer's instantaneous contacts (instant-NO, instant-NC) are listed with its
+NO and NC contacts and checked against their own counts in 'contacts'.
 
 exit status: 0 shown, 1 the file does not load, 2 usage error.
 """
@@ -353,9 +355,14 @@ def xref_rows(sch: Schematic, coil_kinds: set[str]) -> list[dict[str, str]]:
     uses = coil_uses(sch)
     numbers = {r.index: r.number for r in sch.rungs}
     coil_rung: dict[str, list[int]] = {}
+    # a timer's instantaneous contacts, counted apart from its timed NO/NC as `contacts` declares them
+    instant: dict[str, dict[str, int]] = {}
     for el in sch.elements:
         if el.part == "coil":
             coil_rung.setdefault(el.tag, []).append(numbers[el.rung])
+        elif el.part in ("instant-NO", "instant-NC"):
+            counts = instant.setdefault(el.tag, {})
+            counts[el.part] = counts.get(el.part, 0) + 1
     rows = []
     tags = [t for t, d in sch.devices.items() if d.kind in coil_kinds]
     tags.sort(key=lambda t: (min(coil_rung.get(t, [10**9])), t))
@@ -375,18 +382,21 @@ def xref_rows(sch: Schematic, coil_kinds: set[str]) -> list[dict[str, str]]:
                 bits.append(f"{count.nc} NC")
             if count.changeover:
                 bits.append(f"{count.changeover} changeover")
+            for name, n in (("instant-NO", count.instant_no), ("instant-NC", count.instant_nc)):
+                if n:
+                    bits.append(f"{n} {name}")
             available = ", ".join(bits)
-            if count.allows(len(no), len(nc)):
-                status = "ok"
-            else:
-                over = []
-                no_max, nc_max = count.available()
-                extra_no, extra_nc = max(0, len(no) - no_max), max(0, len(nc) - nc_max)
-                if extra_no:
-                    over.append(f"{extra_no} NO too many")
-                if extra_nc:
-                    over.append(f"{extra_nc} NC too many")
-                status = "OVER: " + ", ".join(over)
+            used = instant.get(tag, {})
+            inst_no, inst_nc = used.get("instant-NO", 0), used.get("instant-NC", 0)
+            no_max, nc_max = count.available()
+            extra = [
+                (max(0, len(no) - inst_no - no_max), "NO"),
+                (max(0, len(nc) - inst_nc - nc_max), "NC"),
+                (max(0, inst_no - count.instant_no), "instant-NO"),
+                (max(0, inst_nc - count.instant_nc), "instant-NC"),
+            ]
+            over = [f"{n} {name} too many" for n, name in extra if n]
+            status = "OVER: " + ", ".join(over) if over else "ok"
         rows.append({
             "coil": tag,
             "kind": dev.kind,
