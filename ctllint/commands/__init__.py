@@ -18,6 +18,7 @@ LAZY: dict[str, tuple[str, str]] = {
     "xref": ("view", "coil cross-reference: where each coil's NO and NC contacts are used, against the contacts available"),
     "simulate": ("view", "run the behaviour model step by step and print every load's state after each step"),
     "diff": ("diff", "show what changed electrically between two revisions of schematics (files or git revisions)"),
+    "lsp": ("lsp", "run the language server (LSP over standard input and output) that shows findings in editors as you type"),
 }
 
 
