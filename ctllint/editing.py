@@ -173,6 +173,14 @@ def target_at(sch: Schematic, line: int, col: int, line_text: str) -> Target | N
     return None
 
 
+def use_entry_at(line_text: str, col: int) -> str | None:
+    """The ``*.ctl.yaml`` path written under the cursor (an entry of ``use``), or None."""
+    for m in re.finditer(r"[^\s,\[\]'\"#]+\.ctl\.ya?ml", line_text):
+        if m.start() <= col <= m.end():
+            return m.group()
+    return None
+
+
 def _tag_fields(dev: Device, tag: str) -> list[str]:
     """The fields of ``dev`` whose value names ``tag`` (overload, feeds, interlock, fuses...)."""
     out = []

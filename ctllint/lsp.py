@@ -20,6 +20,7 @@ reported on that document and in the client's log, and the server goes on.
 from __future__ import annotations
 
 import asyncio
+import gc
 import os
 import sys
 import time
@@ -164,12 +165,17 @@ class CtllintServer(LanguageServer):
 
     def run_check(self, uri: str) -> None:
         self.timers.pop(uri, None)
+        collecting = gc.isenabled()
+        gc.disable()  # as in the CLI: a check makes almost no cycles, and the collector would rescan its growing heap
         try:
             self.analyse(uri)
         except Exception as exc:  # noqa: BLE001 - one document's trouble must not stop the server
             self.window_log_message(T.LogMessageParams(T.MessageType.Error, f"ctllint: checking {uri} failed:\n{traceback.format_exc()}"))
             self.publish(uri, {uri: [T.Diagnostic(T.Range(T.Position(0, 0), T.Position(0, 1)), f"ctllint could not check this file: {type(exc).__name__}: {exc}",
                                                   severity=T.DiagnosticSeverity.Error, source="ctllint", code="internal-error")]})
+        finally:
+            if collecting:
+                gc.enable()
 
     def current(self, uri: str) -> Analysis | None:
         """The analysis of the document's text as it is now (checked at once when a change is pending)."""
@@ -191,6 +197,7 @@ class CtllintServer(LanguageServer):
             return None
         doc = self.workspace.get_text_document(uri)
         text = doc.source
+        self.analyses.pop(uri, None)  # let the old model go before the new one is built
         an = Analysis(uri, path, doc.version, text)
         setup = an.setup = self.setup_for(path)
         if setup.error is not None:
@@ -335,6 +342,11 @@ class CtllintServer(LanguageServer):
         if got is None or got[0].schematic is None:
             return None
         an, lines, ln, col = got
+        used = E.use_entry_at(lines[ln], col)
+        if used is not None:  # a `use` entry: the used file itself
+            real = os.path.realpath(os.path.join(os.path.dirname(an.path), used))
+            if real in an.used_files:
+                return [T.Location(uris.from_fs_path(os.path.normpath(os.path.join(os.path.dirname(an.path), used))), T.Range(T.Position(0, 0), T.Position(0, 0)))]
         target = E.target_at(an.schematic, ln, col, lines[ln])
         if target is None or target.tag is None:
             return None
@@ -480,6 +492,9 @@ def serve(config: str | None = None, debounce: float = DEFAULT_DEBOUNCE) -> int:
     os.dup2(2, 1)
     sys.stdout = sys.stderr
     sys.stdin = open(os.devnull, encoding="utf-8")
+    # The console entry pauses the cycle collector for a short-lived process;
+    # a server lives long, so it collects between checks (paused during each).
+    gc.enable()
     server = build(config, debounce)
     server.start_io(proto_in, proto_out)
     return 0

@@ -554,3 +554,51 @@ def test_lsp_without_pygls_says_how_to_install():
     code = "import sys\nsys.modules['pygls'] = None\nfrom ctllint.cli import main\nsys.exit(main(['lsp']))"
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT, stdin=subprocess.DEVNULL)
     assert out.returncode == 2 and "ctllint[lsp]" in out.stderr
+
+
+@pytest.mark.asyncio
+async def test_definition_of_a_use_entry_opens_the_used_file(client: LanguageClient):
+    fan = os.path.join(DEMO, "dryer-fan.ctl.yaml")
+    with open(fan, encoding="utf-8") as handle:
+        text = handle.read()
+    uri = open_doc(client, fan, text)
+    await published(client, uri, 1)
+    line, col = line_of(text, r"library/shared-devices")
+    got = await client.text_document_definition_async(T.DefinitionParams(T.TextDocumentIdentifier(uri), T.Position(line, col + 3)))
+    assert [g.uri for g in got] == [uris.from_fs_path(os.path.join(DEMO, "library", "shared-devices.ctl.yaml"))]
+
+
+@pytest.mark.asyncio
+async def test_excluded_files_get_no_findings_as_in_check(client: LanguageClient):
+    project = client.project
+    (project / ".ctllint.yaml").write_text('cache: false\nexclude: ["legacy/**"]\n', encoding="utf-8")
+    (project / "legacy").mkdir()
+    broken = TOUR.replace("PB1.NC", "PB1.NO")
+    (project / "legacy" / "old.ctl.yaml").write_text(broken, encoding="utf-8")
+    (project / "new.ctl.yaml").write_text(broken, encoding="utf-8")
+    out = subprocess.run([sys.executable, "-m", "ctllint", "check", "--no-cache"], capture_output=True, text=True, cwd=str(project))
+    assert "new.ctl.yaml" in out.stdout and "old.ctl.yaml" not in out.stdout  # the CLI, run in the workspace folder
+    old = open_doc(client, str(project / "legacy" / "old.ctl.yaml"), broken)
+    new = open_doc(client, str(project / "new.ctl.yaml"), broken)
+    assert list((await published(client, old, 1)).diagnostics) == []
+    assert "stop-normally-closed" in {d.code for d in (await published(client, new, 1)).diagnostics}
+
+
+@pytest.mark.asyncio
+async def test_ranges_count_utf16_units(client: LanguageClient):
+    # Two characters outside the Basic Multilingual Plane before the bad value: each is two UTF-16 units (LSP's default).
+    text = TOUR.replace("OL1: {kind: overload, setting: 44 A}", 'OL1: {kind: overload, technology: "\U0001F600\U0001F600", setting: 44 A}')
+    path = client.project / "wide.ctl.yaml"
+    path.write_text(text, encoding="utf-8")
+    uri = open_doc(client, str(path), text)
+    got = await published(client, uri, 1)
+    cli = cli_findings(str(path), str(client.project))
+    assert [c["rule"] for c in cli] == ["format"]
+    line = text.splitlines()[cli[0]["line"] - 1]
+    start = cli[0]["column"] - 1  # the CLI counts characters
+    value = '"\U0001F600\U0001F600"'
+    assert line[start:start + len(value)] == value
+    (d,) = got.diagnostics
+    assert d.range.start.line == cli[0]["line"] - 1
+    assert d.range.start.character == len(line[:start].encode("utf-16-le")) // 2
+    assert d.range.end.character == len(line[:start + len(value)].encode("utf-16-le")) // 2
