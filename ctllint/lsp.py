@@ -368,8 +368,12 @@ class CtllintServer(LanguageServer):
 
     def code_actions(self, params: T.CodeActionParams) -> list[T.CodeAction] | None:
         uri = params.text_document.uri
-        an = self.current(uri)
-        if an is None:
+        an = self.analyses.get(uri)
+        doc = self.workspace.get_text_document(uri)
+        if an is None or an.version != doc.version or an.text != doc.source:
+            # Editors ask for code actions on every keystroke and cursor move: a
+            # pending change is not checked early for them (the pause holds); they
+            # ask again once the new findings are published.
             return None
         lines = _lines(an.text)
         rng = self.codec.range_from_client_units(lines, params.range) if lines else None
