@@ -195,6 +195,7 @@ class CtllintServer(LanguageServer):
         path = self.wanted(uri)
         if path is None:
             return None
+        started = time.perf_counter()
         doc = self.workspace.get_text_document(uri)
         text = doc.source
         self.analyses.pop(uri, None)  # let the old model go before the new one is built
@@ -223,6 +224,7 @@ class CtllintServer(LanguageServer):
                 an.diagnostics, an.used_files = result.diagnostics, list(result.used_files)
         self.analyses[uri] = an
         self.publish_analysis(an)
+        self.window_log_message(T.LogMessageParams(T.MessageType.Log, f"ctllint: checked {path} (version {an.version}) in {time.perf_counter() - started:.3f} s: {len(an.diagnostics)} finding(s)"))
         return an
 
     def publish_analysis(self, an: Analysis) -> None:
@@ -400,7 +402,8 @@ class CtllintServer(LanguageServer):
         for act in actions:
             edits = [T.TextEdit(self.lsp_range(lines, (e.line, e.start, e.end)), e.text) for e in act.edits]
             diags = [self.lsp_diagnostic(d, lines, an.path) for d in act.diagnostics]
-            out.append(T.CodeAction(act.title, kind=T.CodeActionKind.QuickFix, diagnostics=diags or None,
+            kind = T.CodeActionKind.QuickFix if act.diagnostics else T.CodeActionKind.RefactorRewrite  # no finding: offered as a refactoring
+            out.append(T.CodeAction(act.title, kind=kind, diagnostics=diags or None,
                                     edit=T.WorkspaceEdit(changes={uri: edits})))
         return out
 
@@ -476,7 +479,7 @@ def build(config: str | None = None, debounce: float = DEFAULT_DEBOUNCE) -> Ctll
     def references(ls: CtllintServer, params: T.ReferenceParams):
         return ls.references(params)
 
-    @server.feature(T.TEXT_DOCUMENT_CODE_ACTION, T.CodeActionOptions(code_action_kinds=[T.CodeActionKind.QuickFix]))
+    @server.feature(T.TEXT_DOCUMENT_CODE_ACTION, T.CodeActionOptions(code_action_kinds=[T.CodeActionKind.QuickFix, T.CodeActionKind.RefactorRewrite]))
     def code_action(ls: CtllintServer, params: T.CodeActionParams):
         return ls.code_actions(params)
 
