@@ -602,3 +602,55 @@ async def test_ranges_count_utf16_units(client: LanguageClient):
     assert d.range.start.line == cli[0]["line"] - 1
     assert d.range.start.character == len(line[:start].encode("utf-16-le")) // 2
     assert d.range.end.character == len(line[:start + len(value)].encode("utf-16-le")) // 2
+
+
+@pytest.mark.asyncio
+async def test_runaway_plugin_is_stopped_by_the_time_limit(client: LanguageClient):
+    # Checks run on the server's main thread, where the host's SIGALRM limit works as in the CLI.
+    project = client.project
+    (project / "slow_rules.py").write_text(textwrap.dedent("""\
+        from ctllint import hookimpl
+        from ctllint.api import Example, Rule
+        from ctllint.model import Severity
+
+        def forever(ctx):
+            while True:
+                pass
+
+        @hookimpl
+        def ctllint_rules():
+            return [Rule(name="site-forever", severity=Severity.ERROR, summary="never ends", doc="test", source="test",
+                         check=forever, failing=Example("x", "x"), passing=Example("y", "y"))]
+        """), encoding="utf-8")
+    (project / ".ctllint.yaml").write_text("cache: false\nplugins: [slow_rules.py]\nlimits: {plugin_seconds: 1}\n", encoding="utf-8")
+    text = TOUR.replace("PB1.NC", "PB1.NO")
+    path = project / "press.ctl.yaml"
+    path.write_text(text, encoding="utf-8")
+    uri = open_doc(client, str(path), text)
+    got = await published(client, uri, 1)
+    codes = [d.code for d in got.diagnostics]
+    assert "plugin-error" in codes and "stop-normally-closed" in codes
+    assert any("site-forever" in d.message for d in got.diagnostics if d.code == "plugin-error")
+    line, col = line_of(text, r"M1\.coil")
+    hover = await client.text_document_hover_async(T.HoverParams(T.TextDocumentIdentifier(uri), T.Position(line, col)))
+    assert hover is not None
+
+
+# -- token ranges (the protocol-free part), worked by hand --------------------------------------
+
+@pytest.mark.parametrize("line, token", [
+    ("      - [L1, PB1.NC, 2, PB2.NO, 3]", "PB1.NC"),
+    ("      - [L1, PB1.NC, 2, PB2.NO, 3]", "3"),
+    ("  OL1: {kind: overload, setting: 44 amps}   # note", "44 amps"),
+    ("  OL1:", "OL1"),
+    ("title: Dryer fan, east side   # a comment", "Dryer fan, east side"),   # block context: the comma belongs to the text
+    ('  note: "say \\"stop\\", then wait"  # x', '"say \\"stop\\", then wait"'),
+    ("  note: 'it''s here', other", "'it''s here'"),
+    ("  fuses: [FU1, FU2]", "[FU1, FU2]"),
+    ("    setting: 30 A", "30 A"),
+])
+def test_token_ranges(line, token):
+    from ctllint.editing import token_end
+
+    col = line.rindex(token)
+    assert line[col:token_end(line, col)] == token
