@@ -13,14 +13,14 @@ import re
 from dataclasses import dataclass, field
 
 from .kinds import TEXT, KindRegistry
-from .model import ContactCount, Device, Diagnostic, Schematic, Severity
+from .model import ContactCount, Device, Diagnostic, Schematic
 from .suppress import MARKER, UNSUPPRESSIBLE, _COMMENT
 
 # A span: (line, start, end), 0-based, end exclusive.
 Span = tuple[int, int, int]
 
 _TAG_CHARS = re.compile(r"[^\s.,:\[\]{}#'\"]")
-_RULE_WORD = re.compile(r"[A-Za-z0-9_-]+")
+RULE_WORD = re.compile(r"[A-Za-z0-9_-]+")
 
 CORE_RULE_SUMMARIES = {
     "format": "the file breaks the schematic format (FORMAT.md); cannot be suppressed",
@@ -315,7 +315,7 @@ def rule_at(line_text: str, col: int) -> str | None:
     start, end = m.start("rules"), m.end("rules")
     if not start <= col <= end:
         return None
-    a, b = word_at(line_text, col, _RULE_WORD)
+    a, b = word_at(line_text, col, RULE_WORD)
     return line_text[a:b] or None
 
 
@@ -503,5 +503,3 @@ def display(path: str, root: str | None) -> str:
             pass
     return path
 
-
-SEVERITY_ORDER = (Severity.ERROR, Severity.WARNING, Severity.INFO)

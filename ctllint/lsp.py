@@ -37,7 +37,7 @@ from . import __version__
 from . import editing as E
 from .config import ConfigError, find_config, load_config
 from .discover import excluded
-from .engine import BUILTIN_CORE_RULES, Checker
+from .engine import Checker
 from .host import PluginHost
 from .loader import SCHEMATIC_SUFFIXES, LoadResult, format_error, load_text, read_text
 from .model import Diagnostic, Severity
@@ -59,6 +59,12 @@ class Setup:
     error: str | None = None
     error_path: str | None = None
     error_line: int = 1
+
+    @property
+    def limits(self):
+        from .yamlsafe import Limits
+
+        return self.cfg.limits if self.cfg is not None else Limits()
 
 
 @dataclass
@@ -202,9 +208,7 @@ class CtllintServer(LanguageServer):
         an = Analysis(uri, path, doc.version, text)
         setup = an.setup = self.setup_for(path)
         if setup.error is not None:
-            where = (path, 1, 1)
             an.diagnostics = [Diagnostic(path, 1, 1, "config", Severity.ERROR, f"{setup.error} ({setup.error_path}:{setup.error_line}); fix it to have this file checked")]
-            del where
         elif excluded(path, setup.cfg.exclude, setup.cfg.folder if setup.cfg.path else None):
             an.diagnostics = []
         else:
@@ -245,16 +249,8 @@ class CtllintServer(LanguageServer):
         doc = self.workspace.text_documents.get(uri)
         if doc is not None:
             return _lines(doc.source)
-        text, _ = read_text(path, self.limits_for(path))
+        text, _ = read_text(path, self.setup_for(path).limits)
         return _lines(text or "")
-
-    def limits_for(self, path: str):
-        from .yamlsafe import Limits
-
-        for an in self.analyses.values():
-            if an.setup is not None and an.setup.cfg is not None:
-                return an.setup.cfg.limits
-        return Limits()
 
     def lsp_range(self, lines: list[str], span: E.Span) -> T.Range:
         ln, a, b = span
@@ -324,7 +320,7 @@ class CtllintServer(LanguageServer):
         if name is not None and host is not None:
             body = E.rule_hover(name, host.rules)
             if body:
-                a, b = E.word_at(text, col, E._RULE_WORD)
+                a, b = E.word_at(text, col, E.RULE_WORD)
                 return T.Hover(T.MarkupContent(T.MarkupKind.Markdown, body), self.lsp_range(lines, (ln, a, b)))
         sch = an.schematic
         if sch is None or host is None:
