@@ -22,6 +22,7 @@ from __future__ import annotations
 import asyncio
 import gc
 import os
+import re
 import sys
 import time
 import traceback
@@ -303,11 +304,19 @@ class CtllintServer(LanguageServer):
         roots = self._roots()
         return E.display(path, roots[0] if roots else None)
 
-    def location(self, path: str, line: int, column: int) -> T.Location:
+    def location(self, path: str, line: int, column: int, name: str | None = None) -> T.Location:
+        """Where ``path``:``line``:``column`` is; on ``name`` itself when it is written inside the value there (a list of tags)."""
         target = os.path.abspath(path)
         uri = uris.from_fs_path(target)
         lines = self.text_of(uri, target)
-        return T.Location(uri, self.lsp_range(lines, E.span_of(lines, line, column)))
+        span = E.span_of(lines, line, column)
+        if name is not None and 0 <= span[0] < len(lines):
+            text = lines[span[0]]
+            if text[span[1]:span[2]] != name:
+                m = re.compile(rf"(?<![^\s,\[\]{{}}'\"]){re.escape(name)}(?![^\s,\[\]{{}}'\"#])").search(text, span[1], span[2])
+                if m:
+                    span = (span[0], m.start(), m.end())
+        return T.Location(uri, self.lsp_range(lines, span))
 
     def hover(self, params: T.HoverParams) -> T.Hover | None:
         got = self.position(params.text_document.uri, params.position)
@@ -362,7 +371,19 @@ class CtllintServer(LanguageServer):
         if target is None:
             return None
         include = params.context.include_declaration if params.context else True
-        return [self.location(p, l, c) for p, l, c in E.references(an.schematic, target, include)]
+        found = set(E.references(an.schematic, target, include))
+        dev = an.schematic.devices.get(target.tag) if target.tag is not None else None
+        if dev is not None:  # a device of a used file: its uses in the other open schematics that use that file too
+            home = os.path.abspath(dev.loc.path)
+            for other in list(self.analyses.values()):
+                sch = other.schematic
+                if other is an or sch is None:
+                    continue
+                theirs = sch.devices.get(target.tag)
+                if theirs is not None and os.path.abspath(theirs.loc.path) == home:
+                    found.update(E.references(sch, target, include))
+        name = target.tag if target.tag is not None else target.wire
+        return [self.location(p, l, c, name) for p, l, c in sorted(found)]
 
     def code_actions(self, params: T.CodeActionParams) -> list[T.CodeAction] | None:
         uri = params.text_document.uri

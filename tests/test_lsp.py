@@ -654,3 +654,21 @@ def test_token_ranges(line, token):
 
     col = line.rindex(token)
     assert line[col:token_end(line, col)] == token
+
+
+@pytest.mark.asyncio
+async def test_references_of_a_shared_device_reach_the_open_schematics_that_use_it(client: LanguageClient):
+    shared = os.path.join(DEMO, "library", "shared-devices.ctl.yaml")
+    users = [os.path.join(DEMO, n) for n in ("dryer-fan.ctl.yaml", "grain-leg.ctl.yaml")]
+    texts = {}
+    for path in [shared, *users]:
+        with open(path, encoding="utf-8") as handle:
+            texts[path] = handle.read()
+        await published(client, open_doc(client, path, texts[path]), 1)
+    line, col = line_of(texts[shared], r"^\s*FU3:")
+    col = texts[shared].splitlines()[line].index("FU3")
+    refs = await client.text_document_references_async(T.ReferenceParams(T.ReferenceContext(True), T.TextDocumentIdentifier(uris.from_fs_path(shared)), T.Position(line, col)))
+    want = {(uris.from_fs_path(p), i, m.start()) for p, t in texts.items() for i, l in enumerate(t.splitlines())
+            for m in re.finditer(r"\bFU3\b", l.split("#")[0])}
+    assert {(r.uri, r.range.start.line, r.range.start.character) for r in refs} == want
+    assert len({u for u, _, _ in want}) == 3  # the used file and both schematics
