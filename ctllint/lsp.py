@@ -101,7 +101,11 @@ class CtllintServer(LanguageServer):
         # published[source uri][target uri]: diagnostics a check of source gave for target
         self.published: dict[str, dict[str, list[T.Diagnostic]]] = {}
         self.safety_shown = False
-        self.codec = PositionCodec()
+
+    @property
+    def codec(self) -> PositionCodec:
+        """Positions in the units agreed with the client at initialisation (UTF-16 unless it offered another)."""
+        return self.workspace.position_codec
 
     # -- configuration ---------------------------------------------------------------
     def _roots(self) -> list[str]:

@@ -672,3 +672,27 @@ async def test_references_of_a_shared_device_reach_the_open_schematics_that_use_
             for m in re.finditer(r"\bFU3\b", l.split("#")[0])}
     assert {(r.uri, r.range.start.line, r.range.start.character) for r in refs} == want
     assert len({u for u, _, _ in want}) == 3  # the used file and both schematics
+
+
+@pytest_lsp.fixture(config=ClientServerConfig(server_command=SERVER, client_factory=make_client))
+async def client32(lsp_client: LanguageClient, project):
+    """A client that counts positions in code points (UTF-32) only."""
+    caps = T.ClientCapabilities(general=T.GeneralClientCapabilities(position_encodings=[T.PositionEncodingKind.Utf32]))
+    result = await lsp_client.initialize_session(T.InitializeParams(capabilities=caps, root_uri=uris.from_fs_path(str(project))))
+    lsp_client.project = project
+    lsp_client.encoding = result.capabilities.position_encoding
+    yield
+    await lsp_client.shutdown_session()
+
+
+@pytest.mark.asyncio
+async def test_ranges_in_the_encoding_agreed(client32: LanguageClient):
+    client = client32
+    assert client.encoding == T.PositionEncodingKind.Utf32
+    text = TOUR.replace("OL1: {kind: overload, setting: 44 A}", 'OL1: {kind: overload, technology: "\U0001F600\U0001F600", setting: 44 A}')
+    path = client.project / "wide.ctl.yaml"
+    path.write_text(text, encoding="utf-8")
+    uri = open_doc(client, str(path), text)
+    (d,) = (await published(client, uri, 1)).diagnostics
+    line = text.splitlines()[d.range.start.line]
+    assert line[d.range.start.character:d.range.end.character] == '"\U0001F600\U0001F600"'  # code points: Python's own indexes
