@@ -420,8 +420,9 @@ class CtllintServer(LanguageServer):
         if host is not None:
             actions.extend(self._quote_actions(an, lines, host, [d for d in mine if d.rule == "format"]))
         out = []
+        newline = "\r\n" if "\r\n" in an.text else "\n"
         for act in actions:
-            edits = [T.TextEdit(self.lsp_range(lines, (e.line, e.start, e.end)), e.text) for e in act.edits]
+            edits = [T.TextEdit(self.lsp_range(lines, (e.line, e.start, e.end)), e.text.replace("\n", newline)) for e in act.edits]
             diags = [self.lsp_diagnostic(d, lines, an.path) for d in act.diagnostics]
             kind = T.CodeActionKind.QuickFix if act.diagnostics else T.CodeActionKind.RefactorRewrite  # no finding: offered as a refactoring
             out.append(T.CodeAction(act.title, kind=kind, diagnostics=diags or None,
