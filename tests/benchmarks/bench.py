@@ -127,13 +127,8 @@ def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__)
     parser.add_argument("--quick", action="store_true", help="fewer repeats and smaller parallel set")
     parser.add_argument("--repeats", type=int, default=None)
-    parser.add_argument("--only", metavar="ROWS", help="comma-separated row groups to run: start-up, parse-bound, linear, cache, parallel, memory, lsp (default: all)")
+    parser.add_argument("--lsp", action="store_true", help="only the rows of start-up and of the language server (ctllint lsp)")
     args = parser.parse_args()
-    only = set(args.only.split(",")) if args.only else None
-
-    def want(group: str) -> bool:
-        return only is None or group in only
-
     repeats = args.repeats or (2 if args.quick else 3)
     tmp = tempfile.mkdtemp(prefix="ctllint-bench-")
     env = dict(os.environ, NO_COLOR="1", XDG_CACHE_HOME=os.path.join(tmp, "cache"))
@@ -159,77 +154,81 @@ def main() -> None:
     subprocess.run(ctllint("check", "--no-cache", "-j", "1", one), capture_output=True, env=nocache)
     subprocess.run([PY, "-c", "import networkx, pluggy, ruamel.yaml"], capture_output=True, env=nocache)
 
-    t_big = None
     # Start-up: a one-rung file against importing the three libraries.
-    if want("start-up"):
-        t_import = best([PY, "-c", "import networkx, pluggy, ruamel.yaml"], repeats * 2)
-        t_one = best(ctllint("check", "--no-cache", "-j", "1", one), repeats * 2, env=nocache)
-        rows.append(("start-up: check 1 circuit / import libraries", f"{t_one:.3f} s / {t_import:.3f} s", f"{t_one / t_import:.2f}", "<= 1.30"))
+    t_import = best([PY, "-c", "import networkx, pluggy, ruamel.yaml"], repeats * 2)
+    t_one = best(ctllint("check", "--no-cache", "-j", "1", one), repeats * 2, env=nocache)
+    rows.append(("start-up: check 1 circuit / import libraries", f"{t_one:.3f} s / {t_import:.3f} s", f"{t_one / t_import:.2f}", "<= 1.30"))
 
-    # Parse-bound: cold check of the 1,000-circuit file against composing it with ruamel.yaml's C parser.
-    if want("parse-bound"):
-        compose = [PY, "-c", "import sys; from ruamel.yaml import YAML; YAML(typ='safe', pure=False).compose(open(sys.argv[1], encoding='utf-8').read())", big]
-        t_compose = best(compose, repeats)
-        t_big = best(ctllint("check", "--no-cache", "-j", "1", big), repeats, env=nocache)
-        rows.append((f"parse-bound: check / compose, 1,000 circuits ({size / 1e6:.2f} MB)", f"{t_big:.3f} s / {t_compose:.3f} s", f"{t_big / t_compose:.2f}", "<= 1.30"))
-
-    if want("linear"):
-        # Linear: 10x circuits, start-up subtracted: each file is checked in one process that
-        # has started already (best of several), so only the work on the file is timed.
-        t_small, t_big_work = in_process(small, repeats + 2), in_process(big, repeats)
-        rows.append(("linear: 1,000 / 100 circuits (start-up subtracted)", f"{t_big_work:.3f} s / {t_small:.3f} s", f"{t_big_work / t_small:.2f}", "<= 11"))
-        t_ls, t_lb = in_process(lat_small, repeats + 2), in_process(lat_big, repeats)
-        rows.append(("linear: lattice 2,000 / 200 sections (start-up subtracted)", f"{t_lb:.3f} s / {t_ls:.3f} s", f"{t_lb / t_ls:.2f}", "<= 12"))
-
-    if want("cache"):
-        # Cache: a second run over the unchanged file.
-        shutil.rmtree(os.path.join(tmp, "cache"), ignore_errors=True)
-        t_cold = best(ctllint("check", "-j", "1", big), 1, env=env)
-        t_warm = best(ctllint("check", "-j", "1", big), repeats, env=env)
-        rows.append(("cache: warm / cold run, 1,000 circuits", f"{t_warm:.3f} s / {t_cold:.3f} s", f"{t_warm / t_cold:.2f}", "<= 0.15"))
-
-    if want("parallel"):
-        # Parallel: 200 files of 50 circuits, 2 jobs against 1.
-        folder = os.path.join(tmp, "many")
-        os.makedirs(folder)
-        count = 60 if args.quick else 200
-        text = motor_circuits(50)
-        for i in range(count):
-            with open(os.path.join(folder, f"panel{i:03d}.ctl.yaml"), "w", encoding="utf-8") as handle:
-                handle.write(text.replace("Generated line", f"Panel {i}"))
-        t_j1 = best(ctllint("check", "--no-cache", "-j", "1", folder), max(1, repeats - 1), env=nocache)
-        t_j2 = best(ctllint("check", "--no-cache", "-j", "2", folder), max(1, repeats - 1), env=nocache)
-        rows.append((f"parallel: {count} files x 50 circuits, 2 jobs / 1 job", f"{t_j2:.3f} s / {t_j1:.3f} s", f"{t_j2 / t_j1:.2f}", "<= 0.65"))
-
-    if want("memory"):
-        # Memory: the peak resident set of `ctllint check` (as the console script runs it, through
-        # ctllint._entry) on the 1,000-circuit file, less the same for the one-circuit file: what
-        # the larger file costs beyond interpreter, libraries, plugins and a trivial check.
-        probe = ("import resource, sys; sys.argv = ['ctllint'] + sys.argv[1:]; "
-                 "from ctllint._entry import main; main(); "
-                 "print(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss)")
-
-        def peak(path: str) -> int:
-            """Peak RSS in bytes (ru_maxrss is in KiB on Linux) of one check, best of the repeats."""
-            values = []
-            for _ in range(repeats):
-                out = subprocess.run([PY, "-c", probe, "check", "--no-cache", "-j", "1", "--format", "json", "-o", os.devnull, path],
-                                     capture_output=True, text=True, env=nocache)
-                values.append(int(out.stdout.strip().splitlines()[-1]) * 1024)
-            return min(values)
-
-        base, full = peak(one), peak(big)
-        rows.append(("memory: peak RSS 1,000 circuits - 1 circuit / file size", f"{(full - base) / 1e6:.1f} MB / {size / 1e6:.2f} MB", f"{(full - base) / size:.1f}", "<= 20"))
-        rows.append(("memory: whole-process peak RSS, 1,000 / 1 circuit (for reference)", f"{full / 1e6:.1f} MB / {base / 1e6:.1f} MB", "", ""))
-
-    if want("lsp"):
-        if t_big is None:
-            t_big = best(ctllint("check", "--no-cache", "-j", "1", big), repeats, env=nocache)
+    def lsp_rows(t_big: float) -> None:
+        """The language server on the 1,000-circuit file: diagnostics after open and after a change, against the CLI's check."""
         t_open, t_change, debounce = lsp_times(big, one, repeats, nocache)
         rows.append(("lsp: diagnostics after open / CLI check, 1,000 circuits", f"{t_open:.3f} s / {t_big:.3f} s", f"{t_open / t_big:.2f}", "<= 1.00"))
         rows.append((f"lsp: after a change / CLI check + debounce ({debounce:g} s)", f"{t_change:.3f} s / {t_big + debounce:.3f} s",
                      f"{t_change / (t_big + debounce):.2f}", "<= 1.00"))
 
+    if args.lsp:
+        lsp_rows(best(ctllint("check", "--no-cache", "-j", "1", big), repeats, env=nocache))
+        print_rows(rows)
+        shutil.rmtree(tmp, ignore_errors=True)
+        return
+
+    # Parse-bound: cold check of the 1,000-circuit file against composing it with ruamel.yaml's C parser.
+    compose = [PY, "-c", "import sys; from ruamel.yaml import YAML; YAML(typ='safe', pure=False).compose(open(sys.argv[1], encoding='utf-8').read())", big]
+    t_compose = best(compose, repeats)
+    t_big = best(ctllint("check", "--no-cache", "-j", "1", big), repeats, env=nocache)
+    rows.append((f"parse-bound: check / compose, 1,000 circuits ({size / 1e6:.2f} MB)", f"{t_big:.3f} s / {t_compose:.3f} s", f"{t_big / t_compose:.2f}", "<= 1.30"))
+
+    # Linear: 10x circuits, start-up subtracted: each file is checked in one process that
+    # has started already (best of several), so only the work on the file is timed.
+    t_small, t_big_work = in_process(small, repeats + 2), in_process(big, repeats)
+    rows.append(("linear: 1,000 / 100 circuits (start-up subtracted)", f"{t_big_work:.3f} s / {t_small:.3f} s", f"{t_big_work / t_small:.2f}", "<= 11"))
+    t_ls, t_lb = in_process(lat_small, repeats + 2), in_process(lat_big, repeats)
+    rows.append(("linear: lattice 2,000 / 200 sections (start-up subtracted)", f"{t_lb:.3f} s / {t_ls:.3f} s", f"{t_lb / t_ls:.2f}", "<= 12"))
+
+    # Cache: a second run over the unchanged file.
+    shutil.rmtree(os.path.join(tmp, "cache"), ignore_errors=True)
+    t_cold = best(ctllint("check", "-j", "1", big), 1, env=env)
+    t_warm = best(ctllint("check", "-j", "1", big), repeats, env=env)
+    rows.append(("cache: warm / cold run, 1,000 circuits", f"{t_warm:.3f} s / {t_cold:.3f} s", f"{t_warm / t_cold:.2f}", "<= 0.15"))
+
+    # Parallel: 200 files of 50 circuits, 2 jobs against 1.
+    folder = os.path.join(tmp, "many")
+    os.makedirs(folder)
+    count = 60 if args.quick else 200
+    text = motor_circuits(50)
+    for i in range(count):
+        with open(os.path.join(folder, f"panel{i:03d}.ctl.yaml"), "w", encoding="utf-8") as handle:
+            handle.write(text.replace("Generated line", f"Panel {i}"))
+    t_j1 = best(ctllint("check", "--no-cache", "-j", "1", folder), max(1, repeats - 1), env=nocache)
+    t_j2 = best(ctllint("check", "--no-cache", "-j", "2", folder), max(1, repeats - 1), env=nocache)
+    rows.append((f"parallel: {count} files x 50 circuits, 2 jobs / 1 job", f"{t_j2:.3f} s / {t_j1:.3f} s", f"{t_j2 / t_j1:.2f}", "<= 0.65"))
+
+    # Memory: the peak resident set of `ctllint check` (as the console script runs it, through
+    # ctllint._entry) on the 1,000-circuit file, less the same for the one-circuit file: what
+    # the larger file costs beyond interpreter, libraries, plugins and a trivial check.
+    probe = ("import resource, sys; sys.argv = ['ctllint'] + sys.argv[1:]; "
+             "from ctllint._entry import main; main(); "
+             "print(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss)")
+
+    def peak(path: str) -> int:
+        """Peak RSS in bytes (ru_maxrss is in KiB on Linux) of one check, best of the repeats."""
+        values = []
+        for _ in range(repeats):
+            out = subprocess.run([PY, "-c", probe, "check", "--no-cache", "-j", "1", "--format", "json", "-o", os.devnull, path],
+                                 capture_output=True, text=True, env=nocache)
+            values.append(int(out.stdout.strip().splitlines()[-1]) * 1024)
+        return min(values)
+
+    base, full = peak(one), peak(big)
+    rows.append(("memory: peak RSS 1,000 circuits - 1 circuit / file size", f"{(full - base) / 1e6:.1f} MB / {size / 1e6:.2f} MB", f"{(full - base) / size:.1f}", "<= 20"))
+    rows.append(("memory: whole-process peak RSS, 1,000 / 1 circuit (for reference)", f"{full / 1e6:.1f} MB / {base / 1e6:.1f} MB", "", ""))
+
+    lsp_rows(t_big)
+    print_rows(rows)
+    shutil.rmtree(tmp, ignore_errors=True)
+
+
+def print_rows(rows: list[tuple[str, str, str, str]]) -> None:
     widths = [max(len(r[i]) for r in rows + [("goal", "measured", "ratio", "target")]) for i in range(4)]
     header = ("goal", "measured", "ratio", "target")
     print(f"ctllint benchmarks, {os.cpu_count()} cores, Python {sys.version.split()[0]}")
@@ -237,7 +236,6 @@ def main() -> None:
     print("  ".join("-" * w for w in widths))
     for r in rows:
         print("  ".join(c.ljust(w) for c, w in zip(r, widths)))
-    shutil.rmtree(tmp, ignore_errors=True)
 
 
 if __name__ == "__main__":
