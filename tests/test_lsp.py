@@ -696,3 +696,36 @@ async def test_ranges_in_the_encoding_agreed(client32: LanguageClient):
     (d,) = (await published(client, uri, 1)).diagnostics
     line = text.splitlines()[d.range.start.line]
     assert line[d.range.start.character:d.range.end.character] == '"\U0001F600\U0001F600"'  # code points: Python's own indexes
+
+
+@pytest.mark.asyncio
+async def test_saving_a_used_file_checks_its_users_again(client: LanguageClient):
+    project = client.project
+    (project / "library").mkdir()
+    shared = project / "library" / "motors.ctl.yaml"
+    too_high = "ctllint: 1\ndevices:\n  OL1: {kind: overload, setting: 30 A}\n  MTR1: {kind: motor, power: 15 hp, voltage: 460 V, phases: 3}\n"
+    shared.write_text(too_high, encoding="utf-8")
+    text = TOUR.replace("ctllint: 1                          # format version\n", "ctllint: 1\nuse: [library/motors.ctl.yaml]\n")
+    text = "\n".join(line for line in text.splitlines() if not line.lstrip().startswith(("OL1:", "MTR1:"))) + "\n"
+    path = project / "fan.ctl.yaml"
+    path.write_text(text, encoding="utf-8")
+    shared_uri = uris.from_fs_path(str(shared))
+    assert any(c["path"].endswith("motors.ctl.yaml") for c in cli_findings(str(path), str(project)))
+    uri = open_doc(client, str(path), text)
+    await published(client, uri, 1)
+    assert client.diagnostics[shared_uri]
+    open_doc(client, str(shared), too_high)
+    await published(client, shared_uri, 1)
+    # the engineer corrects the setting in the used file and saves it
+    fixed = too_high.replace("setting: 30 A", "setting: 21 A")
+    shared.write_text(fixed, encoding="utf-8")
+    assert not any(c["path"].endswith("motors.ctl.yaml") for c in cli_findings(str(path), str(project)))
+    mark = len(client.published)
+    change_doc(client, shared_uri, fixed, 2)
+    client.text_document_did_save(T.DidSaveTextDocumentParams(T.TextDocumentIdentifier(shared_uri)))
+    await published(client, uri, 1, after=mark)  # the schematic, checked again unchanged
+    loop = asyncio.get_running_loop()
+    end = loop.time() + WAIT
+    while client.diagnostics.get(shared_uri) and loop.time() < end:
+        await asyncio.sleep(0.02)
+    assert list(client.diagnostics[shared_uri]) == []
