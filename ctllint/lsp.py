@@ -80,6 +80,7 @@ class Analysis:
     diagnostics: list[Diagnostic] = field(default_factory=list)
     setup: Setup | None = None
     used_files: list[str] = field(default_factory=list)
+    quotes: dict[int, list] = field(default_factory=dict)  # line -> quoting actions (each tried by loading the file)
 
     @property
     def schematic(self):
@@ -451,6 +452,10 @@ class CtllintServer(LanguageServer):
             if ln in done or not 0 <= ln < len(lines):
                 continue
             done.add(ln)
+            if ln in an.quotes:  # editors ask again on every cursor move: each candidate costs a load of the file
+                out.extend(an.quotes[ln])
+                continue
+            found = len(out)
             for start, end, quoted in E.quote_candidates(lines[ln], keys):
                 edited = list(lines)
                 edited[ln] = lines[ln][:start] + quoted + lines[ln][end:]
@@ -461,6 +466,7 @@ class CtllintServer(LanguageServer):
                     out.append(E.Action(f"Quote the text {quoted} (a comma or colon in it broke the mapping)",
                                         [E.Edit(ln, start, end, quoted)], [x for x in format_diags if x.line == d.line]))
                     break
+            an.quotes[ln] = out[found:]
         return out
 
 

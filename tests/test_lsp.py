@@ -545,7 +545,7 @@ async def test_quote_action_repairs_a_flow_mapping(client: LanguageClient):
 
 def test_check_does_not_import_the_language_server():
     code = ("import sys\nfrom ctllint.cli import main\nmain(['check', '--no-cache', '-j', '1', sys.argv[1]])\n"
-            "print(sorted(m for m in sys.modules if m.split('.')[0] in ('pygls', 'lsprotocol', 'cattrs') or m == 'ctllint.lsp'))")
+            "print(sorted(m for m in sys.modules if m.split('.')[0] in ('pygls', 'lsprotocol', 'cattrs') or m in ('ctllint.lsp', 'ctllint.editing')))")
     out = subprocess.run([sys.executable, "-c", code, os.path.join(DEMO, "dryer-burner.ctl.yaml")], capture_output=True, text=True, cwd=ROOT)
     assert out.stdout.strip().splitlines()[-1] == "[]"
 
