@@ -461,26 +461,29 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
             cache.put(targets[i], digests.get(i), results[i])
 
     # Run-wide rules: a source device of a shared device file (a control
-    # transformer) sums the loads of every schematic that names it, so the
-    # schematics using that device file are brought in when one of them is
-    # checked alone (a pre-commit run on one changed file), then combined.
-    shared_files = sorted({f for r in results.values() for data in r.shared.values() for f in _shared_device_files(data)})
+    # transformer) sums the loads of every schematic that names it. When only
+    # some of those schematics are checked (a pre-commit run on one changed
+    # file), the others are read for what they add to the sum; their own
+    # findings are not reported here (they belong to their own commits), and
+    # the run-wide finding stands at the device in the shared file.
+    shared = [r.shared for r in results.values() if r.shared]
+    shared_files = sorted({f for data in shared for d in data.values() for f in _shared_device_files(d)})
     if shared_files:
         known = {os.path.abspath(t.path) for t in targets}
         for t in dependents(shared_files, cfg.exclude, base):
             if os.path.abspath(t.path) in known:
                 continue
             known.add(os.path.abspath(t.path))
-            targets.append(t)
-            i = len(targets) - 1
             hit = cache.get(t) if cache else None
-            results[i] = hit if hit is not None else checker.check_file(t.path, display_path=t.shown)
+            extra = hit if hit is not None else checker.check_file(t.path, display_path=t.shown)
             if cache and hit is None:
-                cache.put(t, _digest(t.path, cfg.limits.max_file_bytes), results[i])
+                cache.put(t, _digest(t.path, cfg.limits.max_file_bytes), extra)
+            if extra.shared:
+                shared.append(extra.shared)
     diagnostics: set[Diagnostic] = set()
     for r in results.values():
         diagnostics.update(r.diagnostics)
-    diagnostics.update(_suppressed(combine_rules(host, settings, [r.shared for r in results.values() if r.shared]), host))
+    diagnostics.update(_suppressed(combine_rules(host, settings, shared), host))
     return RunResult(sorted(diagnostics), [t.shown for t in targets], cached=cached,
                      device_files=sum(1 for r in results.values() if r.device_file))
 
