@@ -531,8 +531,8 @@ def _check_nema_size(ctx, contactor: Device, target: Device, size: str, current:
             yield Finding(
                 at=contactor.loc,
                 message=(
-                    f"{name}, rated {max_hp:g} hp at {column} (NEMA ICS 2), below {label}'s {power.text} "
-                    f"at {volts.text}; controllers are selected by horsepower at the motor's voltage (NEC 430.83(A)), "
+                    f"{name}, rated {max_hp:g} hp at {column} (NEMA ICS 2), below the {power.text} at {volts.text} "
+                    f"of {label}; controllers are selected by horsepower at the motor's voltage (NEC 430.83(A)), "
                     f"not by continuous current: use a larger size"
                 ),
                 subject=contactor.tag,
