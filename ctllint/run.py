@@ -328,6 +328,21 @@ def _size(path: str) -> int:
         return 0
 
 
+def _search_root(device_file: str, base: str | None) -> str:
+    """Where to look for the schematics that use ``device_file``: its
+    repository; outside git, the configuration's folder or the working
+    folder when the device file lies below it (a device file's own folder
+    would hold no schematic that uses it from above)."""
+    root = find_repository_root(device_file)
+    if os.path.exists(os.path.join(root, ".git")):
+        return root
+    real = os.path.realpath(device_file)
+    for folder in (base, os.getcwd()):
+        if folder and real.startswith(os.path.realpath(folder) + os.sep):
+            return folder
+    return root
+
+
 def dependents(device_files: list[str], exclude: list[str], base: str | None, max_bytes: int = Limits().max_file_bytes) -> list[Target]:
     """Schematics in the repository that ``use`` any of ``device_files``.
 
@@ -339,7 +354,7 @@ def dependents(device_files: list[str], exclude: list[str], base: str | None, ma
     hits: list[list[Target]] = [[] for _ in device_files]
     by_root: dict[str, list[int]] = {}
     for k, device_file in enumerate(device_files):
-        by_root.setdefault(find_repository_root(device_file), []).append(k)
+        by_root.setdefault(_search_root(device_file, base), []).append(k)
     for root, ks in by_root.items():
         names = {os.path.basename(device_files[k]) for k in ks}
         by_real: dict[str, list[int]] = {}

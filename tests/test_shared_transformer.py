@@ -106,3 +106,14 @@ def test_the_sum_survives_the_cache(tmp_path, monkeypatch, capsys):
         report = json.loads(capsys.readouterr().out)
         assert [f["line"] for f in transformer_findings(report)] == [3]
     assert any((tmp_path / "cache").rglob("*.json"))
+
+
+def test_outside_git_a_run_on_one_user_still_finds_the_other(tmp_path, monkeypatch, capsys):
+    # No .git: the schematics sit beside the library folder, under the working folder.
+    (tmp_path / "lib").mkdir()
+    (tmp_path / "lib" / "panel.ctl.yaml").write_text(DEVICES.replace("RATING", "100 VA"))
+    (tmp_path / "a.ctl.yaml").write_text(SCHEMATIC.replace("../lib/", "lib/").replace("SEALED", "60 VA"))
+    (tmp_path / "b.ctl.yaml").write_text(SCHEMATIC.replace("../lib/", "lib/").replace("SEALED", "50 VA"))
+    monkeypatch.setenv("GIT_CEILING_DIRECTORIES", str(tmp_path.parent))
+    code, report = run(monkeypatch, capsys, tmp_path, "a.ctl.yaml")
+    assert [f["line"] for f in transformer_findings(report)] == [3]
