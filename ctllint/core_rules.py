@@ -1,7 +1,8 @@
 """The core rules: findings that ctllint itself gives, not a rule plugin.
 
-``format`` (the loader), ``plugin-error`` (the plugin host) and
-``suppression`` (inline suppressions) appear in output like any rule, so
+``format`` (the loader), ``plugin-error`` (the plugin host),
+``suppression`` (inline suppressions) and ``config`` (the language server's
+word for a configuration it cannot read) appear in output like any rule, so
 ``ctllint rules`` lists them and ``ctllint explain`` documents them, from
 the ``Rule`` values here. They are never run as checks, cannot be disabled,
 re-graded or suppressed, and no plugin may register a rule of these names.
@@ -54,6 +55,16 @@ Rule (or a name already taken), when a rule raises, runs past
 than the cap (none of them are shown) or a finding with a malformed
 location or severity, and when a `ctllint_check` hook reports a rule it did
 not register. Fix the plugin, or take it out of `plugins:` / uninstall it."""
+
+_CONFIG_DOC = """\
+The command line stops with exit status 2 and the configuration's own error
+when `.ctllint.yaml` (or `[tool.ctllint]` in pyproject.toml) cannot be read:
+a misspelt key, a rule that does not exist, an option of the wrong type. An
+editor cannot stop, so the language server shows the same error as a
+`config` finding at line 1 of every file it would have checked, naming the
+configuration file and line, and checks nothing until it is fixed: findings
+worked out under a configuration that is not what the project says would be
+wrong. Fix the configuration; `ctllint check` prints the same message."""
 
 _SUPPRESSION_DOC = """\
 An inline suppression (`# ctllint-allow: RULE -- reason` on a finding's
@@ -143,6 +154,23 @@ devices:
   CR2: {kind: relay, coil: 120 VAC}   # ctllint-allow: unused-device -- spare, wired for stage 2
 rungs:
   - paths: [[L1, CR1.coil, X2]]"""),
+        plugin=CORE_PLUGIN,
+    ),
+    "config": Rule(
+        name="config",
+        severity=Severity.ERROR,
+        summary="the configuration cannot be read, so the file was not checked (shown by the language server)",
+        doc=_CONFIG_DOC,
+        source="ctllint's own (README, \"Configuration\")",
+        check=_given_by_ctllint,
+        failing=Example("a misspelt key in .ctllint.yaml", """\
+# .ctllint.yaml
+rules:
+  switch-fan-out: {severty: error}"""),
+        passing=Example("the key spelt as the rule's options say", """\
+# .ctllint.yaml
+rules:
+  switch-fan-out: {severity: error}"""),
         plugin=CORE_PLUGIN,
     ),
 }

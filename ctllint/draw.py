@@ -201,6 +201,8 @@ class Placed:
     mark: Mark | None = None
     terminals: Marks | None = None  # the element's terminal numbers (its left wire's first)
     closed_in: tuple[str, ...] = ()  # a selector part: the positions it is closed in
+    operator: str = ""               # how a contact is worked: see OPERATORS
+    positions: tuple[str, ...] = ()  # a selector's positions, for its position marks
 
 
 @dataclass
@@ -292,7 +294,11 @@ def match_findings(sch: Schematic, diagnostics: Iterable[Diagnostic]) -> tuple[d
             if what == "element":
                 marked.append(obj)  # type: ignore[arg-type]
             elif what == "device":
-                marked.extend(elements_of.get(obj, []))  # type: ignore[arg-type]
+                # once on the drawing: the device's coil (where a contactor's power poles or a
+                # device's rating are at fault), else its first element, never every contact
+                drawn = elements_of.get(obj, [])  # type: ignore[arg-type]
+                coils = [e for e in drawn if e.role == "load"]
+                marked.extend(coils[:1] or drawn[:1])
             else:
                 supplies.append(obj)  # type: ignore[arg-type]
         if not marked and not supplies:
@@ -739,6 +745,8 @@ def _css(prefix: str, marks: bool = False) -> str:
         f"{p}.rail{{stroke:{INK};stroke-width:3;fill:none}}",
         f"{p}.sym{{stroke:{INK};stroke-width:1.8;fill:none;stroke-linecap:round}}",
         f"{p}.symfill{{fill:#ffffff;stroke:{INK};stroke-width:1.8}}",
+        f"{p}.symdot{{fill:{INK};stroke:{INK};stroke-width:1}}",
+        f"{p}.op{{stroke:{INK};stroke-width:1.2;stroke-dasharray:2 1.5}}",
         f"{p}.dot{{fill:{INK}}}",
         f"{p}.term{{fill:#ffffff;stroke:{INK};stroke-width:1.4}}",
         f"{p}text{{font-family:{MONO};white-space:pre}}",
@@ -771,6 +779,79 @@ def _css(prefix: str, marks: bool = False) -> str:
     return "".join(rules)
 
 
+# How a contact is worked, drawn as a small operator above the contact and
+# joined to it by a dashed stem, as the trade's symbol standards draw
+# mechanical linkage (IEC 60617 and ANSI Y32.2 alike draw the actuator over
+# the contact; these glyphs are ctllint's own drawing of those ideas).
+OPERATORS = {
+    "pushbutton": "push",                  # a plunger: a bar on a stem
+    "pushbutton-maintained": "push-latch",  # a plunger with a detent
+    "emergency-stop": "mushroom",           # a mushroom head, latching
+    "limit-switch": "cam",                  # a roller on a lever
+    "float-switch": "float",                # a float ball
+    "pressure-switch": "pressure",          # a diaphragm
+    "temperature-switch": "thermal",        # a bulb and capillary
+    "flow-switch": "flow",                  # a paddle (flag)
+    "foot-switch": "pedal",                 # a pedal
+    "selector": "selector",                 # a knob with its position marks
+    "overload": "overload",                 # a thermal element (square wave)
+    "timer-on": "delay-on",                 # the delay arc opening up: moves late on energizing
+    "timer-off": "delay-off",               # the delay arc opening down: moves late on de-energizing
+}
+
+
+def operator_of(dev, part: str | None) -> str:
+    """The operator a contact of ``dev`` is drawn with ("" for none: relay and contactor contacts)."""
+    kind = dev.kind
+    if kind == "pushbutton":
+        if dev.get("function") == "emergency-stop":
+            return OPERATORS["emergency-stop"]
+        return OPERATORS["pushbutton-maintained" if dev.get("action") == "maintained" else "pushbutton"]
+    if kind == "timer":
+        return "" if part in INSTANT_PARTS else OPERATORS["timer-off" if dev.get("delay") == "off" else "timer-on"]
+    return OPERATORS.get(kind, "")
+
+
+def _operator(svg: _Svg, p: Placed) -> None:
+    """The operator of a contact, in the band between the contact's bars and
+    its tag label (from 11 to 16 above the row line)."""
+    op, cx, y = p.operator, p.cx, p.y
+    if op in ("delay-on", "delay-off"):  # the delay arc on the bars' tops, no stem
+        bow = -9 if op == "delay-on" else -15
+        svg.add(f'<path class="sym" d="M{_n(cx - 7)} {_n(y - 12)} Q{_n(cx)} {_n(y + bow)} {_n(cx + 7)} {_n(y - 12)}"/>')
+        return
+    top = y - 12
+    svg.add(f'<line class="op" x1="{_n(cx)}" y1="{_n(y - 4)}" x2="{_n(cx)}" y2="{_n(top)}"/>')
+    if op in ("push", "push-latch"):
+        svg.line(cx - 5, top, cx + 5, top, "sym")
+        if op == "push-latch":  # a detent: the button stays where it is put
+            svg.line(cx - 5, top, cx - 5, top + 2.5, "sym")
+            svg.line(cx + 5, top, cx + 5, top + 2.5, "sym")
+    elif op == "mushroom":
+        svg.add(f'<path class="symdot" d="M{_n(cx - 6)} {_n(top)} A6 4 0 0 1 {_n(cx + 6)} {_n(top)} Z"/>')
+    elif op == "cam":
+        svg.line(cx, top, cx + 5, top - 2, "sym")
+        svg.add(f'<circle class="symfill" cx="{_n(cx + 6.5)}" cy="{_n(top - 2.3)}" r="1.6"/>')
+    elif op == "float":
+        svg.add(f'<circle class="symfill" cx="{_n(cx)}" cy="{_n(top - 2)}" r="2.2"/>')
+    elif op == "pressure":
+        svg.add(f'<path class="sym" d="M{_n(cx - 5)} {_n(top)} L{_n(cx + 5)} {_n(top)} A5 3.5 0 0 0 {_n(cx - 5)} {_n(top)}"/>')
+    elif op == "thermal":
+        svg.add(f'<path class="sym" d="M{_n(cx - 5)} {_n(top)} Q{_n(cx - 2.5)} {_n(top - 5)} {_n(cx)} {_n(top)} Q{_n(cx + 2.5)} {_n(top + 5)} {_n(cx + 5)} {_n(top)}"/>')
+    elif op == "flow":
+        svg.add(f'<path class="sym" d="M{_n(cx)} {_n(top)} L{_n(cx)} {_n(top - 4)} L{_n(cx + 5)} {_n(top - 3)} L{_n(cx)} {_n(top - 2)}"/>')
+    elif op == "pedal":
+        svg.line(cx - 5, top + 1, cx + 5, top - 2, "sym")
+    elif op == "overload":
+        pts = " ".join(f"{_n(cx + dx)},{_n(top + dy)}" for dx, dy in ((-6, 0), (-6, -3), (-2, -3), (-2, 0), (2, 0), (2, -3), (6, -3), (6, 0)))
+        svg.add(f'<polyline class="sym" points="{pts}"/>')
+    elif op == "selector":  # a knob: one mark per position, filled where the contact is closed
+        n = len(p.positions) or 1
+        for k, name in enumerate(p.positions or ("",)):
+            mx = cx + (k - (n - 1) / 2) * 4.5
+            svg.add(f'<circle class="{"symdot" if name in p.closed_in else "symfill"}" cx="{_n(mx)}" cy="{_n(top - 1.5)}" r="1.4"/>')
+
+
 def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
     """Draw the element's symbol centred at (cx, y), leads to cx +- SYMBOL_HALF."""
     cx, y, h = p.cx, p.y, SYMBOL_HALF
@@ -783,8 +864,8 @@ def _symbol(svg: _Svg, p: Placed, kind: str) -> None:
         svg.line(cx + 5, y - 10, cx + 5, y + 10, "sym")
         if contact_sense(part) == "NC":
             svg.line(cx - 11, y + 10, cx + 11, y - 10, "sym")
-        if kind == "timer" and part not in INSTANT_PARTS:  # timed contact: a small arc over the bars
-            svg.add(f'<path class="sym" d="M{_n(cx - 7)} {_n(y - 13)} Q{_n(cx)} {_n(y - 7)} {_n(cx + 7)} {_n(y - 13)}"/>')
+        if p.operator:
+            _operator(svg, p)
     elif role == "load" and kind in RESISTIVE_KINDS:
         # a resistor: a rectangle on the wire (IEC 60617 style); a heater: the same with a heating zigzag inside
         svg.line(cx - h, y, cx - 12, y, "sym")
@@ -1054,6 +1135,9 @@ def _layout(sch: Schematic, diagnostics: Iterable[Diagnostic] = (), id_prefix: s
                 dev = sch.devices.get(p.element.tag)
                 if p.kind == "selector" and dev is not None:
                     p.closed_in = selector_parts(dev).get(p.element.part or "", ())
+                    p.positions = tuple(str(x) for x in dev.get("positions") or ())
+                if p.element.role == "contact" and dev is not None:
+                    p.operator = operator_of(dev, p.element.part)
                 element_ids[p.element.index] = p.anchor
                 for d in p.findings:
                     anchors.setdefault(d, p.anchor)
@@ -1297,6 +1381,13 @@ def _draw_rung(svg: _Svg, lay: RungLayout, node_x, rail_l: float, rail_r: float,
                 degree = len(sides[(node, r)]) + (r > top) + (r < bottom)
                 if degree >= 3:
                     svg.add(f'<circle class="dot" cx="{_n(x)}" cy="{_n(lay.row_y[r])}" r="2.6"/>')
+            if all(len(sides[(node, r)]) == 1 for r in rows):
+                # branches that start (or end) on a wire of another rung: the same
+                # terminal mark as a single path's, so every branch start reads alike
+                wire = lay.wire_of[node]
+                elsewhere = [n for n in wire_rungs.get(wire, []) if n != rung.number]
+                note = f"wire {wire}" + (f", also in rung{'s' * (len(elsewhere) > 1)} {', '.join(map(str, elsewhere))}" if elsewhere else ", joins nothing else")
+                svg.add(f'<circle class="term" cx="{_n(x)}" cy="{_n(lay.row_y[top])}" r="3.2" data-terminal={quoteattr(wire)}><title>{escape(note)}</title></circle>')
         else:
             r = rows[0]
             if len(sides[(node, r)]) == 1:  # a wire end that joins nothing in this rung

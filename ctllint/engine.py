@@ -54,6 +54,10 @@ class Checker:
         result = load_text(text, path, self.host.kinds, self.limits, self.device_cache)
         return self._finish(result)
 
+    def check_loaded(self, result: LoadResult) -> FileResult:
+        """Rules and suppressions on a file already loaded (the language server keeps the model it loaded)."""
+        return self._finish(result)
+
     def _finish(self, result: LoadResult) -> FileResult:
         sch = result.schematic
         if sch is None:

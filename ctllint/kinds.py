@@ -218,7 +218,7 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
         {
             "output": FieldSpec(TEXT, choices=("transistor", "relay", "triac")),
             "voltage": FieldSpec(VOLTAGE),
-            "rating": FieldSpec(CURRENT),
+            "rating": FieldSpec(RATING, doc="a current (resistive), or for a relay output its pilot-duty or category rating"),
             "suppressed": FieldSpec(BOOL, default=False),
         },
         bare="output",

@@ -328,6 +328,21 @@ def _size(path: str) -> int:
         return 0
 
 
+def _search_root(device_file: str, base: str | None) -> str:
+    """Where to look for the schematics that use ``device_file``: its
+    repository; outside git, the configuration's folder or the working
+    folder when the device file lies below it (a device file's own folder
+    would hold no schematic that uses it from above)."""
+    root = find_repository_root(device_file)
+    if os.path.exists(os.path.join(root, ".git")):
+        return root
+    real = os.path.realpath(device_file)
+    for folder in (base, os.getcwd()):
+        if folder and real.startswith(os.path.realpath(folder) + os.sep):
+            return folder
+    return root
+
+
 def dependents(device_files: list[str], exclude: list[str], base: str | None, max_bytes: int = Limits().max_file_bytes) -> list[Target]:
     """Schematics in the repository that ``use`` any of ``device_files``.
 
@@ -339,7 +354,7 @@ def dependents(device_files: list[str], exclude: list[str], base: str | None, ma
     hits: list[list[Target]] = [[] for _ in device_files]
     by_root: dict[str, list[int]] = {}
     for k, device_file in enumerate(device_files):
-        by_root.setdefault(find_repository_root(device_file), []).append(k)
+        by_root.setdefault(_search_root(device_file, base), []).append(k)
     for root, ks in by_root.items():
         names = {os.path.basename(device_files[k]) for k in ks}
         by_real: dict[str, list[int]] = {}
@@ -461,26 +476,29 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
             cache.put(targets[i], digests.get(i), results[i])
 
     # Run-wide rules: a source device of a shared device file (a control
-    # transformer) sums the loads of every schematic that names it, so the
-    # schematics using that device file are brought in when one of them is
-    # checked alone (a pre-commit run on one changed file), then combined.
-    shared_files = sorted({f for r in results.values() for data in r.shared.values() for f in _shared_device_files(data)})
+    # transformer) sums the loads of every schematic that names it. When only
+    # some of those schematics are checked (a pre-commit run on one changed
+    # file), the others are read for what they add to the sum; their own
+    # findings are not reported here (they belong to their own commits), and
+    # the run-wide finding stands at the device in the shared file.
+    shared = [r.shared for r in results.values() if r.shared]
+    shared_files = sorted({f for data in shared for d in data.values() for f in _shared_device_files(d)})
     if shared_files:
         known = {os.path.abspath(t.path) for t in targets}
         for t in dependents(shared_files, cfg.exclude, base):
             if os.path.abspath(t.path) in known:
                 continue
             known.add(os.path.abspath(t.path))
-            targets.append(t)
-            i = len(targets) - 1
             hit = cache.get(t) if cache else None
-            results[i] = hit if hit is not None else checker.check_file(t.path, display_path=t.shown)
+            extra = hit if hit is not None else checker.check_file(t.path, display_path=t.shown)
             if cache and hit is None:
-                cache.put(t, _digest(t.path, cfg.limits.max_file_bytes), results[i])
+                cache.put(t, _digest(t.path, cfg.limits.max_file_bytes), extra)
+            if extra.shared:
+                shared.append(extra.shared)
     diagnostics: set[Diagnostic] = set()
     for r in results.values():
         diagnostics.update(r.diagnostics)
-    diagnostics.update(_suppressed(combine_rules(host, settings, [r.shared for r in results.values() if r.shared]), host))
+    diagnostics.update(_suppressed(combine_rules(host, settings, shared), host))
     return RunResult(sorted(diagnostics), [t.shown for t in targets], cached=cached,
                      device_files=sum(1 for r in results.values() if r.device_file))
 

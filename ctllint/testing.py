@@ -70,6 +70,26 @@ class Case:
         return any(f.get("rule") == self.rule for f in self.findings)
 
 
+# A small correct circuit for tests that need a schematic and not a particular
+# one: a three-wire start/stop of a control relay with its seal-in. Changing
+# ``PB1.NC`` to ``PB1.NO`` gives one stop-normally-closed finding at 12:14.
+THREE_WIRE_RELAY = """\
+ctllint: 1
+title: Test conveyor
+supplies:
+  ctl: {hot: L1, common: X2, voltage: 120 VAC}
+devices:
+  PB1: {kind: pushbutton, function: stop}
+  PB2: {kind: pushbutton, function: start}
+  CR1: {kind: relay, coil: 120 VAC}
+rungs:
+  - title: Run relay
+    paths:
+      - [L1, PB1.NC, 2, PB2.NO, 3, CR1.coil, X2]
+      - [2, CR1.NO, 3]
+"""
+
+
 def load_cases(path: str) -> list[Case]:
     """Read one case file."""
     yaml = YAML(typ="safe")

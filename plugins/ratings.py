@@ -368,7 +368,7 @@ def _served_figures(ctx, element: Element) -> list[tuple[Supply, list[LoadFigure
     return list(groups.values())
 
 
-def _check_contact(ctx, element: Element, device: Device) -> Iterator[Finding]:
+def _check_contact(ctx, element: Element, device: Device, what: str = "contact") -> Iterator[Finding]:
     rating = device.get("rating")
     if not isinstance(rating, ContactRating):
         return
@@ -378,7 +378,7 @@ def _check_contact(ctx, element: Element, device: Device) -> Iterator[Finding]:
         def duty_text() -> str:  # worded only for a finding: most contacts pass
             loads = _names([f.tag for f in figures])
             return (
-                f"contact {element.text} serves {loads} on supply {supply.name} ({_volts_text(supply)}): "
+                f"{what} {element.text} serves {loads} on supply {supply.name} ({_volts_text(supply)}): "
                 f"make {_amps(duty.make)}, break {_amps(duty.break_)}, continuous {_amps(duty.continuous)}"
             )
 
@@ -387,7 +387,7 @@ def _check_contact(ctx, element: Element, device: Device) -> Iterator[Finding]:
             if why_not:
                 yield Finding(
                     at=element.loc,
-                    message=f"{duty_text()}; {device.tag}'s {why_not}: use a contact rated for this supply",
+                    message=f"{duty_text()}; {device.tag}'s {why_not}: use {_article_of(what)} {what} rated for this supply",
                     subject=_subject(ctx, element),
                 )
             continue
@@ -399,42 +399,34 @@ def _check_contact(ctx, element: Element, device: Device) -> Iterator[Finding]:
             at=element.loc,
             message=(
                 f"{duty_text()}; {device.tag}'s rating {_limits_text(best)} ({'; '.join(over)}): "
-                f"drive the loads through an interposing relay or use a contact of higher rating"
+                f"drive the loads through an interposing relay or use {_article_of(what)} {what} of higher rating"
             ),
             subject=_subject(ctx, element),
         )
 
 
+def _article_of(what: str) -> str:
+    return "an" if what[:1].lower() in "aeio" else "a"
+
+
 def _check_plc_output(ctx, element: Element, device: Device) -> Iterator[Finding]:
-    """A PLC output's rating is a plain current (make = break = continuous):
-    it must make the loads' inrush and carry their sealed current, at no
-    more than its rated voltage."""
-    rating, rated_v = device.get("rating"), device.get("voltage")
-    for supply, figures in _served_figures(ctx, element):
-        loads = _names([f.tag for f in figures])
-        if isinstance(rated_v, Quantity) and _exceeds(supply.voltage.value, rated_v.value):
-            yield Finding(
-                at=element.loc,
-                message=(
-                    f"PLC output {element.text} is rated {rated_v.text} and switches {loads} on supply {supply.name} "
-                    f"({_volts_text(supply)}): use an output rated for that voltage or an interposing relay"
-                ),
-                subject=_subject(ctx, element),
-            )
-        if not isinstance(rating, Quantity):
-            continue
-        duty = contact_duty(figures)
-        over = [f"{name} {_amps(v)}" for name, v in (("inrush", duty.make), ("sealed", duty.break_)) if _exceeds(v, rating.value)]
-        if over:
-            yield Finding(
-                at=element.loc,
-                message=(
-                    f"PLC output {element.text} rated {_amps(rating.value)} serves {loads} "
-                    f"on supply {supply.name} ({_volts_text(supply)}): {', '.join(over)} above its rating: "
-                    f"drive an interposing relay or use an output of higher rating"
-                ),
-                subject=_subject(ctx, element),
-            )
+    """A PLC output is checked as a contact: a plain current is a resistive
+    rating (it must make the loads' inrush and carry their sealed current),
+    a relay output may give its pilot-duty or category rating instead; and
+    the supply may not be above its rated voltage."""
+    rated_v = device.get("voltage")
+    if isinstance(rated_v, Quantity):
+        for supply, figures in _served_figures(ctx, element):
+            if _exceeds(supply.voltage.value, rated_v.value):
+                yield Finding(
+                    at=element.loc,
+                    message=(
+                        f"PLC output {element.text} is rated {rated_v.text} and switches {_names([f.tag for f in figures])} "
+                        f"on supply {supply.name} ({_volts_text(supply)}): use an output rated for that voltage or an interposing relay"
+                    ),
+                    subject=_subject(ctx, element),
+                )
+    yield from _check_contact(ctx, element, device, "PLC output")
 
 
 def _categories_text(categories) -> str:
@@ -539,8 +531,8 @@ def _check_nema_size(ctx, contactor: Device, target: Device, size: str, current:
             yield Finding(
                 at=contactor.loc,
                 message=(
-                    f"{name}, rated {max_hp:g} hp at {column} (NEMA ICS 2), below {label}'s {power.text} "
-                    f"at {volts.text}; controllers are selected by horsepower at the motor's voltage (NEC 430.83(A)), "
+                    f"{name}, rated {max_hp:g} hp at {column} (NEMA ICS 2), below the {power.text} at {volts.text} "
+                    f"of {label}; controllers are selected by horsepower at the motor's voltage (NEC 430.83(A)), "
                     f"not by continuous current: use a larger size"
                 ),
                 subject=contactor.tag,

@@ -4,30 +4,16 @@ import os
 import re
 import subprocess
 import sys
-import textwrap
 import xml.etree.ElementTree as ET
 
 import pytest
 
 from ctllint.cli import main
+from ctllint.testing import THREE_WIRE_RELAY
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 
-CLEAN = textwrap.dedent("""\
-    ctllint: 1
-    title: Test conveyor
-    supplies:
-      ctl: {hot: L1, common: X2, voltage: 120 VAC}
-    devices:
-      PB1: {kind: pushbutton, function: stop}
-      PB2: {kind: pushbutton, function: start}
-      CR1: {kind: relay, coil: 120 VAC}
-    rungs:
-      - title: Run relay
-        paths:
-          - [L1, PB1.NC, 2, PB2.NO, 3, CR1.coil, X2]
-          - [2, CR1.NO, 3]
-    """)
+CLEAN = THREE_WIRE_RELAY
 # The stop button wired through its NO contact: stop-normally-closed at line 12, column 14.
 FAULTY = CLEAN.replace("PB1.NC", "PB1.NO")
 

@@ -20,7 +20,7 @@ from ctllint.model import Severity
 from ctllint.testing import case_files, check_text, load_cases
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
-CORE = ("format", "plugin-error", "suppression")
+CORE = ("format", "plugin-error", "suppression", "config")
 
 
 def run(capsys, *args):

@@ -16,6 +16,7 @@ import xml.etree.ElementTree as ET
 
 import pytest
 
+from ctllint.testing import load_schematic
 from ctllint.cli import main
 from ctllint.draw import layout
 from ctllint.engine import Checker
@@ -252,7 +253,7 @@ def test_symbols_follow_the_trade_conventions():
     groups = {g.get("data-element"): g for g in elements(root)}
 
     def shapes(g):
-        lines = [ln for ln in g.iter(SVG + "line")]
+        lines = [ln for ln in g.iter(SVG + "line") if ln.get("class") != "op"]  # the operator's stem is not the contact
         vertical = [ln for ln in lines if ln.get("x1") == ln.get("x2")]
         slanted = [ln for ln in lines if ln.get("x1") != ln.get("x2") and ln.get("y1") != ln.get("y2")]
         return vertical, slanted, list(g.iter(SVG + "circle")), list(g.iter(SVG + "rect"))
@@ -362,14 +363,16 @@ def test_findings_are_marked_on_their_elements():
         assert [text_of(t) for t in labels[0].iter(SVG + "text")] == [d.rule]
 
 
-def test_device_findings_mark_every_rung_element_of_the_device():
+def test_device_findings_mark_the_device_once():
+    # A finding about a device (a contactor's power poles, its rating) is marked
+    # once, on its coil, not on every auxiliary contact (issue: real panels).
     sch = load(PRESS)
     m1 = sch.devices["M1"]
     diag = Diagnostic.at(m1.loc, "auto-restart", Severity.WARNING, "M1 can restart by itself")
     drawing = layout(sch, [diag])
     root = parse(drawing.svg)
     marked = sorted(g.get("data-element") for g in elements(root) if g.get("data-findings") == "auto-restart")
-    assert marked == sorted(e.text for e in sch.elements if e.tag == "M1")
+    assert len([e for e in sch.elements if e.tag == "M1"]) > 1 and marked == ["M1.coil"]
     # A field of the device counts too: the overload's setting marks OL1.NC.
     ol = sch.devices["OL1"]
     drawing = layout(sch, [Diagnostic.at(ol.at("setting"), "overload-setting", Severity.ERROR, "too high")])
@@ -526,3 +529,83 @@ def test_long_wire_numbers_in_tight_places_stay_legible():
     assert not overlapping_texts(root)
     shown = {t.get("data-wire") for t in texts(root, "wire")}
     assert set(names) <= shown
+
+
+OPERATED = """ctllint: 1
+supplies:
+  ctl: {hot: L1, common: X2, voltage: 120 VAC}
+devices:
+  ES1: {kind: pushbutton, function: emergency-stop, action: maintained}
+  PB1: {kind: pushbutton, function: stop}
+  SW1: {kind: pushbutton, action: maintained}
+  LS1: {kind: limit-switch}
+  FS1: {kind: float-switch}
+  PS1: {kind: pressure-switch}
+  TS1: {kind: temperature-switch}
+  FL1: {kind: flow-switch}
+  FT1: {kind: foot-switch}
+  SS1: {kind: selector, positions: [off, hand, auto]}
+  TR1: {kind: timer, coil: 120 VAC, delay: on, preset: 5 s}
+  TR2: {kind: timer, coil: 120 VAC, delay: off, preset: 5 s}
+  OL1: {kind: overload}
+  CR1: {kind: relay, coil: 120 VAC}
+rungs:
+  - restart: automatic
+    paths:
+      - [L1, ES1.NC, 1, PB1.NC, 2, SW1.NO, 3, LS1.NO, 4, FS1.NO, 5, PS1.NO, 6, TS1.NO, 7, FL1.NO, 8, FT1.NO, 9, SS1.hand, 10, CR1.coil, 11, OL1.NC, X2]
+      - [1, TR1.NO, 12, TR2.NO, 13, CR1.NO, 14, TR1.coil, X2]
+      - [14, TR2.coil, X2]
+"""
+
+
+def test_contacts_are_drawn_with_their_operators():
+    """Each mechanical contact shows how it is worked, as the trade's symbol
+    standards draw the actuator over the contact; relay contacts show none;
+    on-delay and off-delay contacts carry the delay arc bowed opposite ways
+    (common practice in ladder drawings)."""
+    root = parse(layout(load_schematic(OPERATED)).svg)
+    groups = {g.get("data-element"): g for g in elements(root)}
+
+    def stems(tag):
+        return [ln for ln in groups[tag].iter(SVG + "line") if ln.get("class") == "op"]
+
+    def glyph(tag):
+        return [(e.tag.split("}")[1], e.get("class")) for e in groups[tag] if e.tag.split("}")[1] in ("path", "circle", "polyline")]
+
+    for tag in ("ES1.NC", "PB1.NC", "SW1.NO", "LS1.NO", "FS1.NO", "PS1.NO", "TS1.NO", "FL1.NO", "FT1.NO", "SS1.hand", "OL1.NC"):
+        assert len(stems(tag)) == 1, tag  # joined to its operator by a dashed stem
+    assert not stems("CR1.NO") and not glyph("CR1.NO")  # a relay contact is worked by its coil
+    assert ("path", "symdot") in glyph("ES1.NC")            # the mushroom head, filled
+    assert not glyph("PB1.NC")                              # a plain plunger: lines only
+    assert ("circle", "symfill") in glyph("FS1.NO")          # the float
+    assert ("polyline", "sym") in glyph("OL1.NC")            # the thermal element
+    dots = [e.get("class") for e in groups["SS1.hand"].iter(SVG + "circle")]
+    assert dots == ["symfill", "symdot", "symfill"]          # off, hand (closed), auto
+    arcs = {t: groups[t].find(SVG + "path").get("d") for t in ("TR1.NO", "TR2.NO")}
+    assert arcs["TR1.NO"] != arcs["TR2.NO"] and not stems("TR1.NO")
+
+
+def test_branch_starts_are_drawn_alike():
+    """A rung that starts on another rung's wire is marked with the same
+    terminal circle whether it starts with one path or with a parallel pair."""
+    text = """ctllint: 1
+supplies:
+  ctl: {hot: L1, common: X2, voltage: 120 VAC}
+devices:
+  FS1: {kind: float-switch}
+  FS2: {kind: float-switch}
+  CR1: {kind: relay, coil: 120 VAC}
+  CR2: {kind: relay, coil: 120 VAC}
+rungs:
+  - restart: automatic
+    paths: [[L1, FS1.NO, 1, CR1.coil, X2]]
+  - restart: automatic
+    paths: [[1, CR1.NO, 2, CR2.coil, X2]]
+  - restart: automatic
+    paths:
+      - [1, FS2.NO, 3, CR2.NO, 4, CR1.coil, X2]
+      - [1, CR2.NC, 3]
+"""
+    root = parse(layout(load_schematic(text)).svg)
+    terms = [c.get("data-terminal") for c in root.iter(SVG + "circle") if c.get("class") == "term"]
+    assert terms.count("1") == 2  # rung 2 (one path) and rung 3 (a parallel pair) alike

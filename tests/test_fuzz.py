@@ -24,6 +24,7 @@ import os
 import random
 import re
 import shutil
+import zlib
 from contextlib import redirect_stderr, redirect_stdout
 from dataclasses import dataclass
 from typing import Any, Callable
@@ -628,12 +629,18 @@ class Workspace:
             handle.write(f"# fuzzing: default rules, shorter time limits\nlimits: {{plugin_seconds: {plugin_seconds}, command_seconds: {4 * plugin_seconds + 30}}}\n")
 
     def place(self, base: Base, data: bytes) -> str:
+        # Each base in a repository of its own: a run on a schematic that uses a
+        # shared transformer brings in the other schematics of the repository that
+        # use it (RULES.md, control-transformer), so another base placed beside it
+        # earlier would make a one-file check a two-file one.
+        root = os.path.join(self.folder, f"base-{zlib.crc32(base.rel.encode('utf-8')):08x}")
+        os.makedirs(os.path.join(root, ".git"), exist_ok=True)
         for rel in base.used:
-            target = os.path.join(self.folder, rel)
+            target = os.path.join(root, rel)
             if not os.path.exists(target):
                 os.makedirs(os.path.dirname(target), exist_ok=True)
                 shutil.copyfile(os.path.join(ROOT, rel), target)
-        path = os.path.join(self.folder, base.rel)
+        path = os.path.join(root, base.rel)
         os.makedirs(os.path.dirname(path), exist_ok=True)
         with open(path, "wb") as handle:
             handle.write(data)

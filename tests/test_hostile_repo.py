@@ -20,25 +20,12 @@ from contextlib import redirect_stderr, redirect_stdout
 import pytest
 
 from ctllint.cli import main
+from ctllint.testing import THREE_WIRE_RELAY
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 
 # stop-normally-closed: PB1 is a stop button wired through its NO contact (line 12)
-BROKEN = textwrap.dedent("""\
-    ctllint: 1
-    title: Wash pump
-    supplies:
-      ctl: {hot: L1, common: X2, voltage: 120 VAC}
-    devices:
-      PB1: {kind: pushbutton, function: stop}
-      PB2: {kind: pushbutton, function: start}
-      CR1: {kind: relay, coil: 120 VAC}
-    rungs:
-      - title: Pump relay
-        paths:
-          - [L1, PB1.NO, 2, PB2.NO, 3, CR1.coil, X2]
-          - [2, CR1.NO, 3]
-    """)
+BROKEN = THREE_WIRE_RELAY.replace("PB1.NC", "PB1.NO")
 CLEAN = BROKEN.replace("PB1.NO", "PB1.NC")
 
 needs_git = pytest.mark.skipif(shutil.which("git") is None, reason="git is not installed")

@@ -14,22 +14,9 @@ import xml.etree.ElementTree as ET
 import pytest
 
 from ctllint.cli import main
+from ctllint.testing import THREE_WIRE_RELAY
 
-CLEAN = textwrap.dedent("""\
-    ctllint: 1
-    title: Test conveyor
-    supplies:
-      ctl: {hot: L1, common: X2, voltage: 120 VAC}
-    devices:
-      PB1: {kind: pushbutton, function: stop}
-      PB2: {kind: pushbutton, function: start}
-      CR1: {kind: relay, coil: 120 VAC}
-    rungs:
-      - title: Run relay
-        paths:
-          - [L1, PB1.NC, 2, PB2.NO, 3, CR1.coil, X2]
-          - [2, CR1.NO, 3]
-    """)
+CLEAN = THREE_WIRE_RELAY
 FAULTY = CLEAN.replace("PB1.NC", "PB1.NO")  # stop-normally-closed at 12:14
 
 # What the note must say, each in words a reader can find.

@@ -69,9 +69,12 @@ def test_one_changed_schematic_brings_in_the_other_user(tmp_path, monkeypatch, c
     # a pre-commit run passes only the changed file: B is brought in because
     # it names the same transformer of the same device file
     root = make(tmp_path)
+    (root / "plant" / "b.ctl.yaml").write_text(SCHEMATIC.replace("SEALED", "50 VA").replace("SS1.run", "SS1.NO"))
     code, report = run(monkeypatch, capsys, root, "plant/a.ctl.yaml")
     assert [f["line"] for f in transformer_findings(report)] == [3]
-    assert report["files"] >= 2
+    # B is read for its load only: its own finding (a part SS1 lacks) is for a run that checks B
+    assert {d["rule"] for d in report["diagnostics"]} == {"control-transformer"}
+    assert report["files"] == 1
 
 
 def test_within_the_rating_together_is_quiet(tmp_path, monkeypatch, capsys):
@@ -103,3 +106,14 @@ def test_the_sum_survives_the_cache(tmp_path, monkeypatch, capsys):
         report = json.loads(capsys.readouterr().out)
         assert [f["line"] for f in transformer_findings(report)] == [3]
     assert any((tmp_path / "cache").rglob("*.json"))
+
+
+def test_outside_git_a_run_on_one_user_still_finds_the_other(tmp_path, monkeypatch, capsys):
+    # No .git: the schematics sit beside the library folder, under the working folder.
+    (tmp_path / "lib").mkdir()
+    (tmp_path / "lib" / "panel.ctl.yaml").write_text(DEVICES.replace("RATING", "100 VA"))
+    (tmp_path / "a.ctl.yaml").write_text(SCHEMATIC.replace("../lib/", "lib/").replace("SEALED", "60 VA"))
+    (tmp_path / "b.ctl.yaml").write_text(SCHEMATIC.replace("../lib/", "lib/").replace("SEALED", "50 VA"))
+    monkeypatch.setenv("GIT_CEILING_DIRECTORIES", str(tmp_path.parent))
+    code, report = run(monkeypatch, capsys, tmp_path, "a.ctl.yaml")
+    assert [f["line"] for f in transformer_findings(report)] == [3]

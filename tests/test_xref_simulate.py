@@ -111,6 +111,39 @@ def test_xref_changeover_poles_and_a_missing_coil(tmp_path, capsys):
     assert "no coil" in rows["CR2"]
 
 
+def test_xref_counts_a_timers_instantaneous_contacts_apart(tmp_path, capsys):
+    # FORMAT.md "Additions": a timer's instant-NO / instant-NC are counted in `contacts`
+    # under their own names, as contact-count counts them; the timed NO stays 1 NO.
+    path = tmp_path / "x.ctl.yaml"
+    path.write_text(textwrap.dedent("""\
+        ctllint: 1
+        supplies:
+          ctl: {hot: L1, common: X2, voltage: 120 VAC}
+        devices:
+          KT1: {kind: timer, delay: on, preset: 5 s, coil: 120 VAC, contacts: {NO: 1, instant-NO: 1}}
+          KT2: {kind: timer, delay: on, preset: 5 s, coil: 120 VAC, contacts: {NO: 1, instant-NO: 1}}
+          PB1: {kind: pushbutton, function: start}
+          PL1: {kind: pilot-light}
+          PL2: {kind: pilot-light}
+          PL3: {kind: pilot-light}
+          PL4: {kind: pilot-light}
+        rungs:
+          - paths: [[L1, PB1.NO, 1, KT1.coil, X2], [L1, KT1.instant-NO, 1]]
+          - paths: [[L1, KT1.NO, 2, PL1, X2]]
+          - paths: [[1, KT2.coil, X2]]
+          - paths: [[L1, KT2.instant-NO, 3, PL2, X2]]
+          - paths: [[L1, KT2.instant-NO, 4, PL3, X2]]
+          - paths: [[L1, KT2.NO, 5, PL4, X2]]
+        """))
+    code, out, _ = run(capsys, "xref", str(path))
+    assert code == 0
+    rows = {ln.split()[0]: ln for ln in out.splitlines()[1:]}
+    # KT1: one timed NO (rung 2) and one instant-NO (rung 1), as declared.
+    assert "1 NO, 0 NC, 1 instant-NO" in rows["KT1"] and rows["KT1"].rstrip().endswith("ok")
+    # KT2: two instant-NO drawn (rungs 4 and 5) against one declared.
+    assert "OVER: 1 instant-NO too many" in rows["KT2"] and "NO too many" not in rows["KT2"].replace("instant-NO too many", "")
+
+
 def test_xref_usage_errors(tmp_path, capsys):
     code, _, err = run(capsys, "xref", str(tmp_path / "none.ctl.yaml"))
     assert code == 2 and "does not exist" in err

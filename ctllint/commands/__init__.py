@@ -19,6 +19,7 @@ LAZY: dict[str, tuple[str, str]] = {
     "simulate": ("view", "run the behaviour model step by step and print every load's state after each step"),
     "diff": ("diff", "show what changed electrically between two revisions of schematics (files or git revisions)"),
     "export": ("export", "write a panel document as CSV: the wire list, the bill of materials or the terminal plan"),
+    "lsp": ("lsp", "run the language server (LSP over standard input and output) that shows findings in editors as you type"),
 }
 
 

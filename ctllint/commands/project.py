@@ -26,7 +26,7 @@ repos:
     hooks:
       - id: ctllint
         name: ctllint (control schematic design rules)
-        entry: ctllint check --
+        entry: ctllint check --quiet --
         language: system
         files: '\\.ctl\\.ya?ml$'
 """

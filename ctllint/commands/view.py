@@ -355,7 +355,9 @@ XREF_HELP = """\
 For each relay, timer, contactor and starter: the rung of its coil, the
 rungs where its NO and NC contacts are used, and the contacts used against
 those its 'contacts' field declares ("available: not declared" when the
-field is absent). A contact used twice in one rung is listed twice.
+field is absent). A contact used twice in one rung is listed twice. A
+timer's instantaneous contacts (instant-NO, instant-NC) are listed with its
+NO and NC contacts and checked against their own counts in 'contacts'.
 TERMINALS gives the coil's terminals and each contact's, in the order of
 the rungs listed (written in the file, or assigned by EN 50005 numbering:
 coil A1-A2, NO x3-x4, NC x1-x2, timed x7-x8 and x5-x6).
@@ -385,11 +387,16 @@ def xref_rows(sch: Schematic, coil_kinds: set[str], kinds=None) -> list[dict[str
     numbers = {r.index: r.number for r in sch.rungs}
     coil_rung: dict[str, list[int]] = {}
     terminals: dict[str, dict[str, list[tuple[int, int, str]]]] = {}
+    # a timer's instantaneous contacts, counted apart from its timed NO/NC as `contacts` declares them
+    instant: dict[str, dict[str, int]] = {}
     for el in sch.elements:
         if el.part == "coil" or (el.part in ("set", "power", "run") and el.role == "load"):  # a latching relay's set coil, a safety relay's power, a drive's run input
             coil_rung.setdefault(el.tag, []).append(numbers[el.rung])
+        elif el.part in ("instant-NO", "instant-NC"):
+            counts = instant.setdefault(el.tag, {})
+            counts[el.part] = counts.get(el.part, 0) + 1
         m = marks.get(el.index)
-        if m is not None and el.part in ("coil", "set", "reset", "NO", "NC"):
+        if m is not None and el.part in ("coil", "set", "reset", "NO", "NC", "instant-NO", "instant-NC"):
             terminals.setdefault(el.tag, {}).setdefault(el.part, []).append((numbers[el.rung], el.index, m.pair))
     rows = []
     tags = [t for t, d in sch.devices.items() if d.kind in coil_kinds]
@@ -410,18 +417,21 @@ def xref_rows(sch: Schematic, coil_kinds: set[str], kinds=None) -> list[dict[str
                 bits.append(f"{count.nc} NC")
             if count.changeover:
                 bits.append(f"{count.changeover} changeover")
+            for name, n in (("instant-NO", count.instant_no), ("instant-NC", count.instant_nc)):
+                if n:
+                    bits.append(f"{n} {name}")
             available = ", ".join(bits)
-            if count.allows(len(no), len(nc)):
-                status = "ok"
-            else:
-                over = []
-                no_max, nc_max = count.available()
-                extra_no, extra_nc = max(0, len(no) - no_max), max(0, len(nc) - nc_max)
-                if extra_no:
-                    over.append(f"{extra_no} NO too many")
-                if extra_nc:
-                    over.append(f"{extra_nc} NC too many")
-                status = "OVER: " + ", ".join(over)
+            used = instant.get(tag, {})
+            inst_no, inst_nc = used.get("instant-NO", 0), used.get("instant-NC", 0)
+            no_max, nc_max = count.available()
+            extra = [
+                (max(0, len(no) - inst_no - no_max), "NO"),
+                (max(0, len(nc) - inst_nc - nc_max), "NC"),
+                (max(0, inst_no - count.instant_no), "instant-NO"),
+                (max(0, inst_nc - count.instant_nc), "instant-NC"),
+            ]
+            over = [f"{n} {name} too many" for n, name in extra if n]
+            status = "OVER: " + ", ".join(over) if over else "ok"
         rows.append({
             "coil": tag,
             "kind": dev.kind,
@@ -431,7 +441,7 @@ def xref_rows(sch: Schematic, coil_kinds: set[str], kinds=None) -> list[dict[str
             "nc": f"{len(nc)}: {_rungs_text(nc)}" if nc else "0",
             "terminals": "  ".join(
                 (f"{part} " if part != "coil" else "") + " ".join(t for _, _, t in sorted(terminals[tag][part]))
-                for part in ("coil", "set", "reset", "NO", "NC") if part in terminals.get(tag, {})) or "-",
+                for part in ("coil", "set", "reset", "NO", "NC", "instant-NO", "instant-NC") if part in terminals.get(tag, {})) or "-",
             "available": available,
             "status": status,
         })

@@ -113,6 +113,73 @@ def work_in_process(kind: str, paths: list[str], repeats: int) -> float:
     return float(out.stdout.strip().splitlines()[-1])
 
 
+def lsp_times(big: str, warm: str, repeats: int, env: dict) -> tuple[float, float, float]:
+    """``ctllint lsp`` driven over stdio: best time from didOpen, and from a didChange, to the file's publishDiagnostics.
+
+    The server is started and has checked a one-circuit file first (imports
+    and plugins loaded), as in an editor that has been open a while.
+    """
+    import json
+
+    debounce = 0.3
+    proc = subprocess.Popen(ctllint("lsp", "--debounce", str(debounce)), stdin=subprocess.PIPE, stdout=subprocess.PIPE,
+                            stderr=subprocess.DEVNULL, env=env, cwd=os.path.dirname(big))
+
+    def send(obj: dict) -> None:
+        body = json.dumps(obj).encode()
+        proc.stdin.write(b"Content-Length: %d\r\n\r\n" % len(body) + body)
+        proc.stdin.flush()
+
+    def receive() -> dict:
+        length = 0
+        while True:
+            line = proc.stdout.readline()
+            if not line:
+                raise SystemExit("ctllint lsp ended early")
+            if line in (b"\r\n", b"\n"):
+                break
+            if line.lower().startswith(b"content-length:"):
+                length = int(line.split(b":")[1])
+        return json.loads(proc.stdout.read(length))
+
+    def diagnostics_for(uri: str, version: int) -> None:
+        while True:
+            msg = receive()
+            if msg.get("method") == "textDocument/publishDiagnostics" and msg["params"]["uri"] == uri and msg["params"].get("version") == version:
+                return
+
+    def uri_of(path: str) -> str:
+        return "file://" + os.path.abspath(path)
+
+    send({"jsonrpc": "2.0", "id": 1, "method": "initialize", "params": {"capabilities": {}, "rootUri": uri_of(os.path.dirname(big))}})
+    while receive().get("id") != 1:
+        pass
+    send({"jsonrpc": "2.0", "method": "initialized", "params": {}})
+    with open(warm, encoding="utf-8") as handle:
+        send({"jsonrpc": "2.0", "method": "textDocument/didOpen", "params": {"textDocument": {"uri": uri_of(warm), "languageId": "yaml", "version": 1, "text": handle.read()}}})
+    diagnostics_for(uri_of(warm), 1)
+    with open(big, encoding="utf-8") as handle:
+        text = handle.read()
+    opens, changes = [], []
+    for _ in range(repeats):
+        t = time.perf_counter()
+        send({"jsonrpc": "2.0", "method": "textDocument/didOpen", "params": {"textDocument": {"uri": uri_of(big), "languageId": "yaml", "version": 1, "text": text}}})
+        diagnostics_for(uri_of(big), 1)
+        opens.append(time.perf_counter() - t)
+        t = time.perf_counter()
+        send({"jsonrpc": "2.0", "method": "textDocument/didChange", "params": {"textDocument": {"uri": uri_of(big), "version": 2},
+                                                                               "contentChanges": [{"text": text.replace("Generated line", "Generated line, edited")}]}})
+        diagnostics_for(uri_of(big), 2)
+        changes.append(time.perf_counter() - t)
+        send({"jsonrpc": "2.0", "method": "textDocument/didClose", "params": {"textDocument": {"uri": uri_of(big)}}})
+    send({"jsonrpc": "2.0", "id": 2, "method": "shutdown"})
+    while receive().get("id") != 2:
+        pass
+    send({"jsonrpc": "2.0", "method": "exit"})
+    proc.wait(timeout=60)
+    return min(opens), min(changes), debounce
+
+
 def ctllint(*args: str) -> list[str]:
     return [PY, "-m", "ctllint", *args]
 
@@ -121,6 +188,7 @@ def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--quick", action="store_true", help="fewer repeats and smaller parallel set")
     parser.add_argument("--repeats", type=int, default=None)
+    parser.add_argument("--lsp", action="store_true", help="only the rows of start-up and of the language server (ctllint lsp)")
     args = parser.parse_args()
     repeats = args.repeats or (2 if args.quick else 3)
     tmp = tempfile.mkdtemp(prefix="ctllint-bench-")
@@ -151,6 +219,19 @@ def main() -> None:
     t_import = best([PY, "-c", "import networkx, pluggy, ruamel.yaml"], repeats * 2)
     t_one = best(ctllint("check", "--no-cache", "-j", "1", one), repeats * 2, env=nocache)
     rows.append(("start-up: check 1 circuit / import libraries", f"{t_one:.3f} s / {t_import:.3f} s", f"{t_one / t_import:.2f}", "<= 1.30"))
+
+    def lsp_rows(t_big: float) -> None:
+        """The language server on the 1,000-circuit file: diagnostics after open and after a change, against the CLI's check."""
+        t_open, t_change, debounce = lsp_times(big, one, repeats, nocache)
+        rows.append(("lsp: diagnostics after open / CLI check, 1,000 circuits", f"{t_open:.3f} s / {t_big:.3f} s", f"{t_open / t_big:.2f}", "<= 1.00"))
+        rows.append((f"lsp: after a change / CLI check + debounce ({debounce:g} s)", f"{t_change:.3f} s / {t_big + debounce:.3f} s",
+                     f"{t_change / (t_big + debounce):.2f}", "<= 1.00"))
+
+    if args.lsp:
+        lsp_rows(best(ctllint("check", "--no-cache", "-j", "1", big), repeats, env=nocache))
+        print_rows(rows)
+        shutil.rmtree(tmp, ignore_errors=True)
+        return
 
     # Parse-bound: cold check of the 1,000-circuit file against composing it with ruamel.yaml's C parser.
     compose = [PY, "-c", "import sys; from ruamel.yaml import YAML; YAML(typ='safe', pure=False).compose(open(sys.argv[1], encoding='utf-8').read())", big]
@@ -255,6 +336,12 @@ def main() -> None:
     rows.append(("memory: peak RSS 1,000 circuits - 1 circuit / file size", f"{(full - base) / 1e6:.1f} MB / {size / 1e6:.2f} MB", f"{(full - base) / size:.1f}", "<= 20"))
     rows.append(("memory: whole-process peak RSS, 1,000 / 1 circuit (for reference)", f"{full / 1e6:.1f} MB / {base / 1e6:.1f} MB", "", ""))
 
+    lsp_rows(t_big)
+    print_rows(rows)
+    shutil.rmtree(tmp, ignore_errors=True)
+
+
+def print_rows(rows: list[tuple[str, str, str, str]]) -> None:
     widths = [max(len(r[i]) for r in rows + [("goal", "measured", "ratio", "target")]) for i in range(4)]
     header = ("goal", "measured", "ratio", "target")
     print(f"ctllint benchmarks, {os.cpu_count()} cores, Python {sys.version.split()[0]}")
@@ -262,7 +349,6 @@ def main() -> None:
     print("  ".join("-" * w for w in widths))
     for r in rows:
         print("  ".join(c.ljust(w) for c, w in zip(r, widths)))
-    shutil.rmtree(tmp, ignore_errors=True)
 
 
 if __name__ == "__main__":
