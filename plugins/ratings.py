@@ -683,8 +683,14 @@ def _check_one_overload(ctx, overload, contactor, motor, trip, dial, allowance, 
 # ---------------------------------------------------------------------------
 
 # Device kinds that protect the motor they feed (a drive or soft starter
-# with its own motor overload function), when a plugin registers them.
+# with its own motor overload function, a motor-protective breaker).
 PROTECTIVE_FEEDERS = ("drive", "soft-starter", "motor-breaker")
+# Of those, the ones whose protection also covers a contactor feeding the
+# same motor: a motor breaker sits in series with its contactor, and a soft
+# starter's bypass contactor is wired back through the starter's protection
+# (common practice). A drive's bypass contactor runs the motor with the
+# drive out of circuit, so it needs an overload relay of its own.
+_COVERS_CONTACTORS = ("soft-starter", "motor-breaker")
 
 
 def _alternative(contactor: Device, feeders: list[Device]) -> bool:
@@ -713,14 +719,26 @@ def check_motor_overload(ctx) -> Iterator[Finding]:
         if motor is None or motor.kind != "motor" or motor.get("protection") == "integral":
             continue
         others = feeders.get(motor.tag, [])
-        if any(d.kind in PROTECTIVE_FEEDERS for d in others):
+        if any(d.kind in _COVERS_CONTACTORS for d in others):
             continue
+        bypass = any(d.kind in PROTECTIVE_FEEDERS for d in others)
         protected = any(isinstance(d.get("overload"), str) for d in others)
         if protected and contactor.get("role") in ("star", "delta"):
             continue  # a wye-delta starter's overload sits with its line contactor
         if protected and not _alternative(contactor, others):
             continue  # a second contactor in series (a monitored safety pair): the overload drops the first
 
+        if bypass:
+            yield Finding(
+                at=contactor.loc,
+                message=(
+                    f"{contactor.kind} {contactor.tag} feeds motor {motor.tag}, which a drive also feeds, and names no overload "
+                    f"relay: running through {contactor.tag} (a bypass) the drive is out of circuit and does not protect the "
+                    f"motor (NEC 430.32); fit an overload relay for the bypass path (overload: OL..)"
+                ),
+                subject=contactor.tag,
+            )
+            continue
         yield Finding(
             at=contactor.loc,
             message=(
@@ -1203,7 +1221,9 @@ rungs:
             "A motor without running overload protection burns on a stall, an overload or a lost phase; NEC "
             "430.32 requires it for continuous-duty motors. A contactor or starter that `feeds` a motor must name "
             "its `overload` relay, unless the motor is marked `protection: integral` (a thermal protector in the "
-            "motor, 430.32(A)(2)) or is fed through a device that protects it (a drive). In a wye-delta starter "
+            "motor, 430.32(A)(2)) or is fed through a device that protects it. A motor-protective breaker or a soft "
+            "starter covers the contactor with it; a drive does not cover a bypass contactor, which runs the motor with "
+            "the drive out of circuit and needs its own overload relay. In a wye-delta starter "
             "the overload sits with the line contactor, so the star and delta contactors need none of their own; "
             "a second contactor in series with a protected one (the redundant pair of a safety circuit) needs "
             "none either. One that runs the motor instead of another (interlocked: the other direction, "
