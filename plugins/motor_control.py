@@ -820,6 +820,10 @@ def _closable_at_power_return(ctx: CheckContext, el: Element) -> bool | None:
         return None if el.part == "NO" else True  # its outputs come on when its feedback loop can (the fixpoint)
     if dev.kind in COIL_KINDS:
         return True if el.part == "NC" else None
+    if dev.kind in _DRIVE_KINDS:  # its run relay follows its run input (the fixpoint); no fault at power return
+        return {"NO": None, "NC": True, "fault-NO": False, "fault-NC": True}.get(el.part or "", False)
+    if dev.kind == "motor-breaker":  # closed, not tripped, at power return
+        return {"NO": True, "NC": False, "trip-NO": False, "trip-NC": True}.get(el.part or "", False)
     if dev.kind == "overload":
         return el.part == "NC"
     if dev.kind == "pushbutton":
@@ -830,6 +834,13 @@ def _closable_at_power_return(ctx: CheckContext, el: Element) -> bool | None:
             return bool(positions) and str(positions[0]) in K.selector_parts(dev).get(el.part, ())
         return True
     return _is_mechanical(dev)
+
+
+_DRIVE_KINDS = ("drive", "soft-starter")
+
+
+class _NONE:  # stands for a device that is not declared (its kind matches nothing)
+    kind = ""
 
 
 def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
@@ -844,7 +855,9 @@ def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
             coil_no.setdefault(el.tag, []).append(el)
         elif not closable:
             blocked.append(el)
-    coils = _coil_loads(ctx)
+    # A drive or soft starter runs its motor while its run input is energized: a motor starter too.
+    drives = [load for load in ctx.circuit.loads if load.part == "run" and (_device(ctx, load.tag) or _NONE).kind in _DRIVE_KINDS]
+    coils = _coil_loads(ctx) + drives
     # A safety relay restarts by itself when its feedback loop closes with no reset button pressed.
     starters = coils + _safety_loads(ctx, "feedback")
     on: set[int] = set()
@@ -863,7 +876,7 @@ def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
     cut = circuit.cut(blocked + [e for nos in coil_no.values() for e in nos])
     for coil in coils:
         dev = _device(ctx, coil.tag)
-        if coil.index not in on or dev.kind not in CONTACTOR_KINDS:
+        if coil.index not in on or (dev.kind not in CONTACTOR_KINDS and dev.kind not in _DRIVE_KINDS):
             continue
         fed = dev.get("feeds")
         fed_dev = _device(ctx, fed) if fed else None
@@ -874,7 +887,8 @@ def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
         path = circuit.energizing_path(coil, without=cut)
         yield Finding(
             coil.loc,
-            f"{dev.kind} {coil.tag} (motor {fed}) can energize when power returns with no button pressed "
+            f"{dev.kind} {coil.text if dev.kind in _DRIVE_KINDS else coil.tag} (motor {fed}) can "
+            f"{'run' if dev.kind in _DRIVE_KINDS else 'energize'} when power returns with no button pressed "
             f"(path {_path_text(path, coil, ctx)}): use three-wire control (momentary start with seal-in) "
             f"so the motor stays off until started, or set restart: automatic on the rung if that is intended",
             _subject(ctx, coil),
