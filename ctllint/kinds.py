@@ -52,6 +52,8 @@ class FieldSpec:
     default: object = None
     tag_kinds: tuple[str, ...] = ()   # for TAG/TAGS: kinds the named device may be
     doc: str = ""
+    maximum: float | None = None      # for NUMBER: the largest value allowed
+    required_text: str = ""           # for TEXT: non-empty text is required; the words say what it is for
 
 
 # ``location: panel | field`` (every kind): outside the panel, a field device's wires pass the terminal strip.
@@ -132,7 +134,8 @@ _CONTACTOR_FIELDS = {
     "vacuum": FieldSpec(BOOL, default=False, doc="vacuum interrupter"),
     "role": FieldSpec(TEXT, choices=("line", "delta", "star"), doc="its place in a wye-delta starter"),
     "speed": FieldSpec(TEXT, doc="the speed of a multi-speed motor it runs (a name under the motor's speeds)"),
-    "estop_exempt": FieldSpec(TEXT, doc="why the emergency stop does not drop it (required text)"),
+    "estop_exempt": FieldSpec(TEXT, doc="why the emergency stop does not drop it (required text)",
+                              required_text='the reason the emergency stop leaves it running (e.g. "freeze protection, no motion hazard")'),
 }
 
 _SWITCH_FIELDS = {**_CONTACT_FIELDS, "setpoint": FieldSpec(TEXT, doc="free text, e.g. opens at 300 F")}
@@ -246,7 +249,7 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
             "input": FieldSpec(VOLTAGE),
             "output": FieldSpec(VOLTAGE),
             "rating": FieldSpec(CURRENT, doc="rated output current"),
-            "efficiency": FieldSpec(NUMBER, doc="output / input power (default 0.85) when its input is counted"),
+            "efficiency": FieldSpec(NUMBER, doc="output / input power (default 0.85) when its input is counted", maximum=1.0),
             "source": FieldSpec(TAG, tag_kinds=("transformer",), doc="the transformer that feeds its input"),
         },
     ),

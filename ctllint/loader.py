@@ -549,8 +549,8 @@ class _Loader:
             value = self.scalar(node, what)
             if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value) or value <= 0:
                 self.fail(node, f"{what} must be a positive number, not '{node.value}'")
-            if what.startswith("efficiency ") and value > 1:
-                self.fail(node, f"{what} is output / input power, at most 1 (0.85 is typical), not '{node.value}'")
+            if spec.maximum is not None and value > spec.maximum:
+                self.fail(node, f"{what} is {spec.doc.split(' (')[0]}, at most {spec.maximum:g}, not '{node.value}'")
             return float(value)
         if t == K.COUNT:
             value = self.scalar(node, what)
@@ -568,8 +568,8 @@ class _Loader:
                 self.fail(node, f"{what} must be text, not {_describe_value(value)}")
             if spec.choices and value not in spec.choices:
                 self.fail(node, f"{what} '{value}' is not one of: {', '.join(spec.choices)}")
-            if not value.strip() and what.startswith("estop_exempt "):
-                self.fail(node, f"{what} must give the reason the emergency stop leaves it running (e.g. \"freeze protection, no motion hazard\")")
+            if spec.required_text and not value.strip():
+                self.fail(node, f"{what} must give {spec.required_text}")
             return value
         if t == K.TAG:
             return self.tag(node, what)

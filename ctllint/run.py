@@ -34,6 +34,7 @@ from .engine import Checker, FileResult
 from .host import PluginHost, RuleSettings, combine_rules
 from .loader import SCHEMATIC_SUFFIXES, find_repository_root
 from .model import Diagnostic, Severity
+from .safeio import ReadProblem, read_bytes
 from .yamlsafe import Limits
 
 CACHE_FORMAT = 3  # 2: entries keep the data of run-wide rules (Rule.collect); 3: and whether the file is a shared device file
@@ -498,7 +499,7 @@ def run_check(paths: list[str], cfg: Config, host: PluginHost, settings: RuleSet
     diagnostics: set[Diagnostic] = set()
     for r in results.values():
         diagnostics.update(r.diagnostics)
-    diagnostics.update(_suppressed(combine_rules(host, settings, shared), host))
+    diagnostics.update(_suppressed(combine_rules(host, settings, shared), host, cfg.limits))
     return RunResult(sorted(diagnostics), [t.shown for t in targets], cached=cached,
                      device_files=sum(1 for r in results.values() if r.device_file))
 
@@ -509,7 +510,7 @@ def _shared_device_files(data) -> list[str]:
     return [f for f in files if isinstance(f, str)] if isinstance(files, list) else []
 
 
-def _suppressed(diags: list[Diagnostic], host: PluginHost) -> list[Diagnostic]:
+def _suppressed(diags: list[Diagnostic], host: PluginHost, limits: Limits) -> list[Diagnostic]:
     """Suppression comments apply to run-wide findings as to any other."""
     from .engine import BUILTIN_CORE_RULES
     from .suppress import MARKER, apply_suppressions
@@ -519,10 +520,9 @@ def _suppressed(diags: list[Diagnostic], host: PluginHost) -> list[Diagnostic]:
     for d in diags:
         by_path.setdefault(d.path, []).append(d)
     for path, found in by_path.items():
-        try:
-            with open(path, encoding="utf-8", errors="replace") as handle:
-                text = handle.read(8_000_000)
-        except OSError:
+        try:  # read as check reads a file: a regular file within the size limit
+            text = read_bytes(path, limits).decode("utf-8", errors="replace")
+        except ReadProblem:
             text = ""
         if MARKER in text:
             found = apply_suppressions(path, text.splitlines(), found, set(host.rules) | BUILTIN_CORE_RULES)

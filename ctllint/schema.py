@@ -53,12 +53,16 @@ def _field(spec: K.FieldSpec) -> dict[str, Any]:
         out = {"type": "boolean"}
     elif t == K.NUMBER:
         out = {"type": "number", "exclusiveMinimum": 0}
+        if spec.maximum is not None:
+            out["maximum"] = spec.maximum
     elif t == K.COUNT:
         out = {"type": "integer", "minimum": 1}
         if spec.choices:
             out["enum"] = [int(c) for c in spec.choices]
     elif t == K.TEXT:
         out = {"type": "string"}
+        if spec.required_text:
+            out["pattern"] = r"\S"
         if spec.choices:
             out["enum"] = list(spec.choices)
     elif t == K.TAG:

@@ -839,10 +839,6 @@ def _closable_at_power_return(ctx: CheckContext, el: Element) -> bool | None:
 _DRIVE_KINDS = ("drive", "soft-starter")
 
 
-class _NONE:  # stands for a device that is not declared (its kind matches nothing)
-    kind = ""
-
-
 def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
     circuit = ctx.circuit
     blocked: list[Element] = []
@@ -856,7 +852,7 @@ def check_auto_restart(ctx: CheckContext) -> Iterator[Finding]:
         elif not closable:
             blocked.append(el)
     # A drive or soft starter runs its motor while its run input is energized: a motor starter too.
-    drives = [load for load in ctx.circuit.loads if load.part == "run" and (_device(ctx, load.tag) or _NONE).kind in _DRIVE_KINDS]
+    drives = [load for load in ctx.circuit.loads if load.part == "run" and getattr(_device(ctx, load.tag), "kind", None) in _DRIVE_KINDS]
     coils = _coil_loads(ctx) + drives
     # A safety relay restarts by itself when its feedback loop closes with no reset button pressed.
     starters = coils + _safety_loads(ctx, "feedback")

@@ -117,3 +117,11 @@ def test_outside_git_a_run_on_one_user_still_finds_the_other(tmp_path, monkeypat
     monkeypatch.setenv("GIT_CEILING_DIRECTORIES", str(tmp_path.parent))
     code, report = run(monkeypatch, capsys, tmp_path, "a.ctl.yaml")
     assert [f["line"] for f in transformer_findings(report)] == [3]
+
+
+def test_a_suppression_at_the_shared_transformer_holds_for_the_run_wide_finding(tmp_path, monkeypatch, capsys):
+    root = make(tmp_path)
+    lib = root / "lib" / "panel.ctl.yaml"
+    lib.write_text(lib.read_text().replace("FU2]}", "FU2]}  # ctllint-allow: control-transformer -- second transformer on order"))
+    code, report = run(monkeypatch, capsys, root, "plant")
+    assert transformer_findings(report) == []
