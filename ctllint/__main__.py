@@ -1,5 +1,5 @@
 import sys
 
-from ._entry import main
+from ctllint._entry import main
 
 sys.exit(main())

@@ -4,7 +4,7 @@ ctllint builds many small objects and almost no reference cycles; left on,
 the collector rescans the growing heap while modules import and files load
 (about a fifth of a large check's time, measured). Reference counting
 still frees everything; the pause ends with the process. Library callers
-of ``ctllint.cli.main`` keep the collector as they set it.
+of ``ctllint.commands.cli.main`` keep the collector as they set it.
 """
 import gc
 import sys
@@ -12,7 +12,7 @@ import sys
 
 def main() -> int:
     gc.disable()
-    from .cli import main as run
+    from ctllint.commands.cli import main as run
 
     return run()
 

@@ -12,11 +12,16 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any, Callable, Iterable
 
-from .kinds import KindRegistry
-from .model import Diagnostic, Location, Schematic, Severity
+from ctllint.reading.kinds import KindRegistry
+from ctllint.reading.model import Diagnostic, Location, Schematic, Severity
+
+__all__ = [
+    "CheckContext", "Diagnostic", "Example", "Finding", "KindRegistry", "Location", "Option", "OutputFormat",
+    "Rule", "Schematic", "Severity", "reflow", "rules_from",
+]
 
 if TYPE_CHECKING:  # pragma: no cover
-    from .circuit import Circuit
+    from ctllint.circuit.analysis import Circuit
 
 
 @dataclass(frozen=True)
@@ -95,6 +100,38 @@ class Rule:
     # of the run that gave some and yields findings, located in any file.
     collect: Callable[["CheckContext"], Any] | None = None
     combine: Callable[[list[Any]], Iterable[Finding]] | None = None
+
+
+def reflow(text: str) -> str:
+    """``text`` with each paragraph's lines joined by one space; paragraphs apart by a blank line.
+
+    A rule module's docstring is its documentation: ``Rule(doc=reflow(__doc__))``
+    gives every report (SARIF, the HTML report, editor hovers) the same
+    one-line paragraphs however the source is wrapped.
+    """
+    paragraphs, lines = [], []
+    for line in (text or "").splitlines() + [""]:
+        if line.strip():
+            lines.append(line.strip())
+        elif lines:
+            paragraphs.append(" ".join(lines))
+            lines = []
+    return "\n\n".join(paragraphs)
+
+
+def rules_from(package: str, modules: Iterable[str]) -> list[Rule]:
+    """The ``RULE`` of each named module of ``package``: a plugin's one list of its rules.
+
+    A plugin package keeps one module per rule (``plugins/wiring/unknown_device.py``
+    holds ``RULE = Rule(...)``); its ``__init__`` names them once::
+
+        RULES = rules_from(__name__, ("unknown_device", "unknown_part"))
+
+    so adding a rule is one module and one name here.
+    """
+    import importlib
+
+    return [importlib.import_module(f"{package}.{name}").RULE for name in modules]
 
 
 @dataclass

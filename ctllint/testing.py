@@ -41,9 +41,9 @@ from typing import Any, Iterable
 
 from ruamel.yaml import YAML
 
-from .engine import Checker
-from .host import PluginHost
-from .model import Diagnostic
+from ctllint.checking.engine import Checker
+from ctllint.checking.host import PluginHost
+from ctllint.reading.model import Diagnostic
 
 _CHECKERS: dict[tuple, Checker] = {}
 
@@ -163,7 +163,7 @@ def check_case(case: Case, plugins: Iterable[Any] = ()) -> None:
 
 def load_schematic(text: str, path: str = "case.ctl.yaml"):
     """Load schematic ``text`` for a test, failing with its format errors if it does not load."""
-    from .loader import load_text
+    from ctllint.reading.loader import load_text
 
     result = load_text(text, path)
     assert result.schematic is not None, "\n".join(f"{d.line}:{d.column}: {d.message}" for d in result.diagnostics)

@@ -20,10 +20,10 @@ from typing import TYPE_CHECKING, Any, Iterator
 
 from ctllint import hookimpl
 from ctllint.api import Example, Finding, Rule
-from ctllint.model import Scenario, Severity, Step
+from ctllint.reading.model import Scenario, Severity, Step
 
 if TYPE_CHECKING:  # pragma: no cover
-    from ctllint.simulate import ScenarioEvent
+    from ctllint.circuit.simulate import ScenarioEvent
 
 
 def _state(value: Any) -> str:

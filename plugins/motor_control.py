@@ -97,10 +97,10 @@ from typing import Iterable, Iterator
 
 from ctllint import hookimpl
 from ctllint.api import CheckContext, Example, Finding, Option, Rule
-from ctllint.circuit import biconnected_blocks
-from ctllint import kinds as K
-from ctllint.kinds import BUILTIN_KINDS, LOAD
-from ctllint.model import Element, Severity
+from ctllint.circuit.analysis import biconnected_blocks
+import ctllint.reading.kinds as K
+from ctllint.reading.kinds import BUILTIN_KINDS, LOAD
+from ctllint.reading.model import Element, Severity
 
 _KINDS = {k.name: k for k in BUILTIN_KINDS}
 COIL_KINDS = ("relay", "timer", "contactor", "starter", "alternating-relay")
@@ -166,7 +166,7 @@ def _walk(path: list[Element], load: Element, ctx: CheckContext) -> list[str]:
     first = path[0]
     wire = supply.hot if supply is not None and supply.hot in (first.left, first.right) else first.left
     items = [wire]
-    for el in path:  # the same walk as ctllint.circuit.path_text, kept as a list to split at the load
+    for el in path:  # the same walk as ctllint.circuit.analysis.path_text, kept as a list to split at the load
         wire = el.right if el.left == wire else el.left
         items += [el.text, wire]
     return items

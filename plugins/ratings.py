@@ -3,7 +3,7 @@
 These rules compare what a device is rated for with what the circuit asks of
 it. The figures come from the schematic (coil VA, lamp watts, nameplate
 currents, fuse ratings) and from published tables held in
-``ctllint.tables`` (NEC Tables 430.250 and 430.248, NEC 430.32, 430.72 and
+``ctllint.circuit.tables`` (NEC Tables 430.250 and 430.248, NEC 430.32, 430.72 and
 450.3(B), NEMA ICS 5 pilot duty, IEC 60947 utilisation categories, NEMA
 ICS 2 sizes); each table names its source beside it.
 
@@ -46,10 +46,10 @@ from typing import Iterator
 
 from ctllint import hookimpl
 from ctllint.api import Example, Finding, Rule
-from ctllint.model import ContactRating, Device, Element, Location, Quantity, Severity, Supply
-from ctllint.quantities import format_si
-from ctllint.wiresets import WireSets
-from ctllint.tables import (
+from ctllint.reading.model import ContactRating, Device, Element, Location, Quantity, Severity, Supply
+from ctllint.reading.quantities import format_si
+from ctllint.circuit.wiresets import WireSets
+from ctllint.circuit.tables import (
     HP_W,
     OVERLOAD_FRACTION_LOW,
     STARTING_FRACTION_LOW,
@@ -70,7 +70,7 @@ from ctllint.tables import (
 )
 
 # A motor's power matches a NEMA size's horsepower when within 1 % (7.5 kW
-# for 10 hp), as the NEC tables are read (ctllint.tables).
+# for 10 hp), as the NEC tables are read (ctllint.circuit.tables).
 _HP_TOLERANCE = 0.01
 
 # Relative slack when comparing a duty with a limit, so that a duty equal to

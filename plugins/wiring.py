@@ -10,7 +10,7 @@ grounded circuit switches only the ungrounded side of its loads, and that
 no wire ends in mid-air or device sits unused.
 
 The circuit questions (energizing paths, shorts, crossed supplies) are asked
-of ``ctllint.circuit.Circuit``; none of them enumerates paths. Elements
+of ``ctllint.circuit.analysis.Circuit``; none of them enumerates paths. Elements
 whose tag or part is unknown are reported once, by ``unknown-device`` or
 ``unknown-part``, and left out of the circuit rules here.
 """
@@ -25,14 +25,14 @@ if _TYPE_CHECKING:  # pragma: no cover
     import networkx as nx
 
 from ctllint import hookimpl
-from ctllint import kinds as K
+import ctllint.reading.kinds as K
 from ctllint.api import CheckContext, Example, Finding, Rule
-from ctllint.circuit import biconnected_blocks, path_text
-from ctllint.model import Device, Element, Schematic, Severity, Supply
-from ctllint.quantities import format_si
-from ctllint.terminals import assign as assign_terminals
-from ctllint.tables import COIL_MAX_FRACTION, COIL_MIN_FRACTION, coil_voltage_ok
-from ctllint.wiresets import WireSets
+from ctllint.circuit.analysis import biconnected_blocks, path_text
+from ctllint.reading.model import Device, Element, Schematic, Severity, Supply
+from ctllint.reading.quantities import format_si
+from ctllint.reading.terminals import assign as assign_terminals
+from ctllint.circuit.tables import COIL_MAX_FRACTION, COIL_MIN_FRACTION, coil_voltage_ok
+from ctllint.circuit.wiresets import WireSets
 
 # The built-in kinds tell which fields name other devices and which parts a
 # kind has, for messages. Roles themselves come from the loader, which knows

@@ -7,7 +7,7 @@ import textwrap
 
 import pytest
 
-from ctllint.cli import main
+from ctllint.commands.cli import main
 
 SCHEMATIC = textwrap.dedent("""\
     ctllint: 1
@@ -85,7 +85,7 @@ def test_local_plugin_edit_is_part_of_the_key(project, capsys):
     body = textwrap.dedent('''\
         from ctllint import hookimpl
         from ctllint.api import Finding, Rule
-        from ctllint.model import Severity
+        from ctllint.reading.model import Severity
 
         def check(ctx):
             if MESSAGE:
@@ -141,7 +141,7 @@ def test_an_edit_in_any_module_of_a_plugin_package_is_part_of_the_key(project, c
         import importlib.util, os
         from ctllint import hookimpl
         from ctllint.api import Finding, Rule
-        from ctllint.model import Severity
+        from ctllint.reading.model import Severity
 
         _spec = importlib.util.spec_from_file_location(__name__ + ".words", os.path.join(os.path.dirname(__file__), "words.py"))
         words = importlib.util.module_from_spec(_spec)
@@ -226,7 +226,7 @@ def test_a_file_above_the_size_limit_is_not_read_to_be_hashed(project):
     env = dict(os.environ, XDG_CACHE_HOME=str(project / "cache"))
     env.pop("CTLLINT_NO_CACHE", None)
     code = ("import resource, sys; resource.setrlimit(resource.RLIMIT_AS, (2 << 30, 2 << 30)); "
-            "from ctllint.cli import main; sys.exit(main(['check', '--format', 'json', '-j', '1', 'huge.ctl.yaml']))")
+            "from ctllint.commands.cli import main; sys.exit(main(['check', '--format', 'json', '-j', '1', 'huge.ctl.yaml']))")
     done = subprocess.run([sys.executable, "-c", code], cwd=project, env=env, capture_output=True, text=True, timeout=120)
     assert done.returncode == 1, done.stderr[-2000:]
     [d] = json.loads(done.stdout)["diagnostics"]
@@ -236,7 +236,7 @@ def test_a_file_above_the_size_limit_is_not_read_to_be_hashed(project):
 def test_a_full_disk_leaves_no_temporary_file(project, capsys, monkeypatch):
     import errno
 
-    import ctllint.run as run
+    import ctllint.checking.run as run
 
     real_dump = json.dump
 

@@ -1,4 +1,4 @@
-"""Tests of ctllint.circuit: the graph analyses the rules build on.
+"""Tests of ctllint.circuit.analysis: the graph analyses the rules build on.
 
 Realistic small circuits go through the loader; the property test compares
 the linear analyses with a brute-force enumeration of simple paths on small
@@ -14,10 +14,10 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from ctllint.circuit import Circuit, _block_chain, biconnected_blocks, path_text
+from ctllint.circuit.analysis import Circuit, _block_chain, biconnected_blocks, path_text
 from ctllint.testing import load_schematic
-from ctllint.model import Element, Location, Quantity, Rung, Schematic, Supply
-from ctllint.model import Path as ModelPath
+from ctllint.reading.model import Element, Location, Quantity, Rung, Schematic, Supply
+from ctllint.reading.model import Path as ModelPath
 
 HEAD = """ctllint: 1
 supplies:

@@ -8,7 +8,7 @@ import xml.etree.ElementTree as ET
 
 import pytest
 
-from ctllint.cli import main
+from ctllint.commands.cli import main
 from ctllint.testing import THREE_WIRE_RELAY
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))

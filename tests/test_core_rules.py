@@ -2,7 +2,7 @@
 
 A user who sees `[format]` in the output must be able to ask what it means:
 every rule name that can appear in output is explainable. The names are
-found independently of ctllint.core_rules: from the rule literals of every
+found independently of ctllint.checking.core_rules: from the rule literals of every
 `Diagnostic(...)` the core code builds (read from its source), from the
 registered plugin rules, and from real runs that give each core finding.
 """
@@ -14,9 +14,9 @@ import textwrap
 import pytest
 
 from ctllint.api import Finding, Rule
-from ctllint.cli import main
-from ctllint.host import PluginHost
-from ctllint.model import Severity
+from ctllint.commands.cli import main
+from ctllint.checking.host import PluginHost
+from ctllint.reading.model import Severity
 from ctllint.testing import case_files, check_text, load_cases
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
@@ -97,7 +97,7 @@ def _finding_rules(text):
 
 
 def _core_rule(name):
-    from ctllint.core_rules import CORE_RULES
+    from ctllint.checking.core_rules import CORE_RULES
 
     return CORE_RULES[name]
 

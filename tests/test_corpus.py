@@ -67,7 +67,7 @@ SHARED_DEVICES = os.path.join(ROOT, "fixtures", "clean", "library", "packing-hal
 
 
 def run_json(capsys, *args):
-    from ctllint.cli import main
+    from ctllint.commands.cli import main
 
     code = main(["check", "--format", "json", "--no-cache", "-j", "1", "--fail-on", "info", *args])
     return code, json.loads(capsys.readouterr().out)

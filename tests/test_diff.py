@@ -1,4 +1,4 @@
-"""The semantic diff: ``ctllint.diff`` and the ``ctllint diff`` command.
+"""The semantic diff: ``ctllint.review.diff`` and the ``ctllint diff`` command.
 
 Each folder of tests/data/diff holds ``old.ctl.yaml`` and ``new.ctl.yaml``,
 two revisions of one control circuit with one known electrical change.
@@ -18,8 +18,8 @@ import pytest
 
 from ctllint import hookimpl
 from ctllint.api import Finding, Rule
-from ctllint.cli import main
-from ctllint.diff import (
+from ctllint.commands.cli import main
+from ctllint.review.diff import (
     ADDED,
     CHANGED,
     MOVED,
@@ -34,8 +34,8 @@ from ctllint.diff import (
     semantic_diff,
     translate_message,
 )
-from ctllint.loader import load_text
-from ctllint.model import Severity
+from ctllint.reading.loader import load_text
+from ctllint.reading.model import Severity
 from ctllint.testing import checker
 
 DATA = os.path.join(os.path.dirname(os.path.abspath(__file__)), "data", "diff")

@@ -17,11 +17,11 @@ import xml.etree.ElementTree as ET
 import pytest
 
 from ctllint.testing import load_schematic
-from ctllint.cli import main
-from ctllint.draw import layout
-from ctllint.engine import Checker
-from ctllint.loader import load_file, load_text
-from ctllint.model import Diagnostic, Severity
+from ctllint.commands.cli import main
+from ctllint.output.draw import layout
+from ctllint.checking.engine import Checker
+from ctllint.reading.loader import load_file, load_text
+from ctllint.reading.model import Diagnostic, Severity
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 DATA = os.path.join(HERE, "data", "draw")

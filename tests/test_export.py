@@ -16,12 +16,12 @@ import textwrap
 
 import pytest
 
-from ctllint.report import SAFETY_NOTE
-from ctllint.cli import main
-from ctllint.export import bom_rows, documents, export
-from ctllint.kinds import KindRegistry
-from ctllint.loader import load_file, load_text
-from ctllint.terminals import assign
+from ctllint.output.report import SAFETY_NOTE
+from ctllint.commands.cli import main
+from ctllint.output.export import bom_rows, documents, export
+from ctllint.reading.kinds import KindRegistry
+from ctllint.reading.loader import load_file, load_text
+from ctllint.reading.terminals import assign
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 sys.path.insert(0, os.path.join(ROOT, "tests", "benchmarks"))
@@ -213,7 +213,7 @@ def test_command_writes_file_and_refuses_unknown_kind(tmp_path, capsys):
 
 
 def test_html_report_has_the_wire_sheet(tmp_path):
-    from ctllint.htmlreport import FileReport, render_html
+    from ctllint.output.htmlreport import FileReport, render_html
 
     page = render_html([FileReport("small.ctl.yaml", small(), [])])
     assert 'id="f1-wires"' in page

@@ -8,7 +8,7 @@ import textwrap
 
 import pytest
 
-from ctllint.cli import main
+from ctllint.commands.cli import main
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 DEMO = os.path.join(ROOT, "fixtures", "demo")

@@ -5,8 +5,8 @@ import textwrap
 
 import pytest
 
-from ctllint.loader import load_text
-from ctllint.circuit import Circuit
+from ctllint.reading.loader import load_text
+from ctllint.circuit.analysis import Circuit
 from ctllint.testing import load_schematic
 
 ADDITIONS = textwrap.dedent("""\

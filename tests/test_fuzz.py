@@ -34,7 +34,7 @@ from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
 from ruamel.yaml import YAML
 
-from ctllint.cli import main
+from ctllint.commands.cli import main
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 ROOT = os.path.dirname(HERE)
@@ -651,7 +651,7 @@ class Workspace:
 
 
 def run_cli(argv: list[str]) -> tuple[int, str, str]:
-    """``ctllint.cli.main`` in this process, with its output caught."""
+    """``ctllint.commands.cli.main`` in this process, with its output caught."""
     out, err = io.StringIO(), io.StringIO()
     with redirect_stdout(out), redirect_stderr(err):
         rc = main(argv)
@@ -698,7 +698,7 @@ def problems_with(rc: int, out: str, err: str, path: str, data: bytes) -> list[s
 
 # -- the commands other than check ----------------------------------------------------
 
-# What a file may hold that must not reach a terminal raw (see ctllint.cli.printable).
+# What a file may hold that must not reach a terminal raw (see ctllint.commands.cli.printable).
 _RAW = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f\u061c\u200e\u200f\u2028\u2029\u202a-\u202e\u2066-\u2069]")
 
 
@@ -719,7 +719,7 @@ def other_commands(ws: Workspace, base: Base, path: str) -> list[tuple[str, list
         ("diff", ["diff", *cfg, original, path]),
         ("diff-json", ["diff", *cfg, "--format", "json", "--no-findings", path, original]),
     ]
-    from ctllint.loader import load_file
+    from ctllint.reading.loader import load_file
 
     try:
         sch = load_file(path).schematic

@@ -30,7 +30,7 @@ from contextlib import redirect_stderr, redirect_stdout
 
 import pytest
 
-from ctllint.cli import main
+from ctllint.commands.cli import main
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 ROOT = os.path.dirname(HERE)
@@ -591,7 +591,7 @@ def test_every_misbehaving_plugin_at_once(tmp_path):
 # -- nothing lost -------------------------------------------------------------------------
 
 def test_failing_render_leaves_the_output_untouched(tmp_path, monkeypatch):
-    import ctllint.report as report
+    import ctllint.output.report as report
 
     path = write(tmp_path / "a.ctl.yaml", WITH_UNKNOWN)
     out_file = write(tmp_path / "report.json", "previous report\n")
@@ -633,7 +633,7 @@ def test_failing_write_leaves_the_output_untouched(tmp_path, monkeypatch):
         handle = real_fdopen(fd, mode, *args, **kwargs)
         return HalfWriter(handle) if mode == "w" else handle  # only the report: reading the schematics goes on
 
-    import ctllint.cli as cli
+    import ctllint.commands.cli as cli
 
     monkeypatch.setattr(cli.os, "fdopen", fdopen)
     rc, out, err = run_cli("check", "--no-cache", "--format", "json", "-o", out_file, path)
@@ -729,10 +729,10 @@ def test_output_is_the_same_whatever_the_hash_seed_and_workers(corpus, fmt):
 
 
 def test_output_is_the_same_whatever_the_plugin_order(corpus):
-    from ctllint import report
-    from ctllint.engine import Checker
-    from ctllint.host import PluginHost
-    from ctllint.loader import SCHEMATIC_SUFFIXES
+    from ctllint.output import report
+    from ctllint.checking.engine import Checker
+    from ctllint.checking.host import PluginHost
+    from ctllint.reading.loader import SCHEMATIC_SUFFIXES
 
     names = ["ctllint_plugins.wiring", "ctllint_plugins.motor_control", "ctllint_plugins.ratings", "ctllint_plugins.behaviour"]
     modules = [importlib.import_module(n) for n in names]

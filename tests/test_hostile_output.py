@@ -17,8 +17,8 @@ from urllib.parse import quote, unquote
 
 import pytest
 
-from ctllint.cli import main
-from ctllint.model import Diagnostic, Severity
+from ctllint.commands.cli import main
+from ctllint.reading.model import Diagnostic, Severity
 
 ESC = "\x1b"
 RLO = "\u202e"   # right-to-left override
@@ -99,8 +99,8 @@ def test_diff_still_colours_its_own_markers(evil, capsys, monkeypatch):
 
 
 def test_svg_and_html_report_hold_no_control_characters(evil, capsys):
-    from ctllint.draw import render_svg
-    from ctllint.loader import load_text
+    from ctllint.output.draw import render_svg
+    from ctllint.reading.loader import load_text
 
     sch = load_text(EVIL, "evil.ctl.yaml").schematic
     svg = render_svg(sch)
@@ -113,7 +113,7 @@ def test_svg_and_html_report_hold_no_control_characters(evil, capsys):
 
 
 def test_junit_has_no_xml_invalid_characters(tmp_path):
-    from ctllint.report import render_junit
+    from ctllint.output.report import render_junit
 
     d = Diagnostic("a\ufffe.ctl.yaml", 3, 4, "format", Severity.ERROR, "bad \ufffe\uffff\x01 \ud800 value")
     text = render_junit([d], ["a\ufffe.ctl.yaml"], {})
@@ -158,7 +158,7 @@ def test_max_nodes_admits_a_file_of_ordinary_rungs_at_max_file_bytes():
     sys.path.insert(0, os.path.join(os.path.dirname(__file__), "benchmarks"))
     from generate import motor_circuits
 
-    from ctllint.yamlsafe import Limits, compose
+    from ctllint.reading.yamlsafe import Limits, compose
 
     text = motor_circuits(100)
     counted = []
@@ -183,7 +183,7 @@ def test_max_nodes_admits_a_file_of_ordinary_rungs_at_max_file_bytes():
 
 
 def test_max_nodes_follows_max_file_bytes_in_the_configuration(tmp_path):
-    from ctllint.config import load_config
+    from ctllint.checking.config import load_config
 
     (tmp_path / ".ctllint.yaml").write_text("limits: {max_file_bytes: 90000000}\n")
     assert load_config(str(tmp_path / ".ctllint.yaml")).limits.max_nodes == 30000000
@@ -192,15 +192,15 @@ def test_max_nodes_follows_max_file_bytes_in_the_configuration(tmp_path):
 
 
 def test_jobs_in_the_configuration_is_used(tmp_path, monkeypatch, capsys):
-    import ctllint.run
+    import ctllint.checking.run
 
     seen = []
-    real = ctllint.run.run_check
+    real = ctllint.checking.run.run_check
 
     def spy(*args, **kwargs):
         seen.append(kwargs.get("jobs"))
         return real(*args, **kwargs)
-    monkeypatch.setattr(ctllint.run, "run_check", spy)
+    monkeypatch.setattr(ctllint.checking.run, "run_check", spy)
     monkeypatch.chdir(tmp_path)
     (tmp_path / ".ctllint.yaml").write_text("jobs: 3\n")
     (tmp_path / "a.ctl.yaml").write_text("ctllint: 1\nrungs: []\n")
@@ -238,7 +238,7 @@ def test_a_fractional_count_limit_is_refused_not_truncated(tmp_path, monkeypatch
 
 
 def test_fractional_seconds_are_kept(tmp_path):
-    from ctllint.config import load_config
+    from ctllint.checking.config import load_config
 
     (tmp_path / ".ctllint.yaml").write_text("limits: {plugin_seconds: 0.5, command_seconds: 0.25, max_depth: 12.0}\n")
     limits = load_config(str(tmp_path / ".ctllint.yaml")).limits
@@ -276,7 +276,7 @@ def test_a_suppression_inside_a_quoted_string_does_not_count(tmp_path, monkeypat
 
 
 def test_comment_starts_follow_yaml_quoting():
-    from ctllint.suppress import comment_starts
+    from ctllint.checking.suppress import comment_starts
 
     lines = [
         'a: "x # y"  # real',          # 0: the comment after the double-quoted string
@@ -305,14 +305,14 @@ def _repo_with_devices(root, n_devices: int, n_files: int):
 
 
 def test_dependents_reads_the_repository_once_for_many_device_files(tmp_path, monkeypatch):
-    import ctllint.run
+    import ctllint.checking.run
 
     _repo_with_devices(tmp_path, 5, 60)
     calls = []
-    real = ctllint.run.discover
-    monkeypatch.setattr(ctllint.run, "discover", lambda *a, **k: (calls.append(a), real(*a, **k))[1])
+    real = ctllint.checking.run.discover
+    monkeypatch.setattr(ctllint.checking.run, "discover", lambda *a, **k: (calls.append(a), real(*a, **k))[1])
     files = [str(tmp_path / "lib" / f"dev{k}.ctl.yaml") for k in range(5)]
-    found = ctllint.run.dependents(files, [], None)
+    found = ctllint.checking.run.dependents(files, [], None)
     assert len(calls) == 1
     # By hand: file p{i} uses dev{i % 6} when i % 6 < 5; listed device file by device file.
     want = [str(tmp_path / "plant" / f"p{i}.ctl.yaml") for k in range(5) for i in range(60) if i % 6 == k]

@@ -19,7 +19,7 @@ from contextlib import redirect_stderr, redirect_stdout
 
 import pytest
 
-from ctllint.cli import main
+from ctllint.commands.cli import main
 from ctllint.testing import THREE_WIRE_RELAY
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
@@ -173,7 +173,7 @@ SLOW_PLUGIN = textwrap.dedent("""\
     import time
     from ctllint import hookimpl
     from ctllint.api import Rule
-    from ctllint.model import Severity
+    from ctllint.reading.model import Severity
 
     def check(ctx):
         time.sleep(120)
@@ -251,7 +251,7 @@ def test_sigterm_while_the_report_is_written_removes_the_temporary_file(tmp_path
     (tmp_path / "pump.ctl.yaml").write_text(BROKEN)
     script = textwrap.dedent("""\
         import os, signal, sys
-        import ctllint.cli as cli
+        import ctllint.commands.cli as cli
         real = os.chmod
         def chmod(*a, **k):  # called between writing the temporary file and renaming it
             os.kill(os.getpid(), signal.SIGTERM)
@@ -271,7 +271,7 @@ MARKER_PLUGIN = textwrap.dedent("""\
     import os
     from ctllint import hookimpl
     from ctllint.api import Finding, Rule
-    from ctllint.model import Severity
+    from ctllint.reading.model import Severity
 
     with open(os.path.join(os.path.dirname(os.path.abspath(__file__)), "RAN"), "a") as handle:  # proof that it ran
         handle.write("imported\\n")

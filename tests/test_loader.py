@@ -3,8 +3,8 @@ import textwrap
 
 import pytest
 
-from ctllint.loader import load_text
-from ctllint.model import Severity
+from ctllint.reading.loader import load_text
+from ctllint.reading.model import Severity
 
 GOOD = textwrap.dedent("""\
     ctllint: 1
@@ -147,7 +147,7 @@ def test_all_format_errors_of_a_file_are_reported():
 
 
 def test_alias_bomb_stops_at_the_node_limit():
-    from ctllint.yamlsafe import Limits
+    from ctllint.reading.yamlsafe import Limits
 
     lines = ["a0: &a0 [x, x, x, x, x, x, x, x, x, x]"]
     for i in range(1, 9):
@@ -172,7 +172,7 @@ def test_use_adds_devices_and_refuses_to_leave_the_repository(tmp_path):
     main = tmp_path / "a.ctl.yaml"
     body = "supplies:\n  c: {hot: L1, common: X2, voltage: 120 VAC}\ndevices:\n  PL1: {kind: pilot-light}\nrungs:\n  - paths:\n      - [L1, PB1.NC, 2, PL1, X2]\n"
     main.write_text("ctllint: 1\nuse: [lib/dev.ctl.yaml]\n" + body)
-    from ctllint.loader import load_file
+    from ctllint.reading.loader import load_file
 
     result = load_file(str(main))
     assert result.diagnostics == []

@@ -276,7 +276,7 @@ async def test_crashing_local_plugin_is_reported_and_the_server_goes_on(client: 
         import os, sys
         from ctllint import hookimpl
         from ctllint.api import Example, Rule
-        from ctllint.model import Severity
+        from ctllint.reading.model import Severity
 
         print("noise on standard output at import")   # must not reach the protocol stream
         os.write(1, b"Content-Length: 5\\r\\n\\r\\nnoise")
@@ -544,14 +544,14 @@ async def test_quote_action_repairs_a_flow_mapping(client: LanguageClient):
 # -- the command ---------------------------------------------------------------------------------
 
 def test_check_does_not_import_the_language_server():
-    code = ("import sys\nfrom ctllint.cli import main\nmain(['check', '--no-cache', '-j', '1', sys.argv[1]])\n"
-            "print(sorted(m for m in sys.modules if m.split('.')[0] in ('pygls', 'lsprotocol', 'cattrs') or m in ('ctllint.lsp', 'ctllint.editing')))")
+    code = ("import sys\nfrom ctllint.commands.cli import main\nmain(['check', '--no-cache', '-j', '1', sys.argv[1]])\n"
+            "print(sorted(m for m in sys.modules if m.split('.')[0] in ('pygls', 'lsprotocol', 'cattrs') or m in ('ctllint.commands.editor.server', 'ctllint.commands.editor.editing')))")
     out = subprocess.run([sys.executable, "-c", code, os.path.join(DEMO, "dryer-burner.ctl.yaml")], capture_output=True, text=True, cwd=ROOT)
     assert out.stdout.strip().splitlines()[-1] == "[]"
 
 
 def test_lsp_without_pygls_says_how_to_install():
-    code = "import sys\nsys.modules['pygls'] = None\nfrom ctllint.cli import main\nsys.exit(main(['lsp']))"
+    code = "import sys\nsys.modules['pygls'] = None\nfrom ctllint.commands.cli import main\nsys.exit(main(['lsp']))"
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT, stdin=subprocess.DEVNULL)
     assert out.returncode == 2 and "ctllint[lsp]" in out.stderr
 
@@ -611,7 +611,7 @@ async def test_runaway_plugin_is_stopped_by_the_time_limit(client: LanguageClien
     (project / "slow_rules.py").write_text(textwrap.dedent("""\
         from ctllint import hookimpl
         from ctllint.api import Example, Rule
-        from ctllint.model import Severity
+        from ctllint.reading.model import Severity
 
         def forever(ctx):
             while True:
@@ -650,7 +650,7 @@ async def test_runaway_plugin_is_stopped_by_the_time_limit(client: LanguageClien
     ("    setting: 30 A", "30 A"),
 ])
 def test_token_ranges(line, token):
-    from ctllint.editing import token_end
+    from ctllint.commands.editor.editing import token_end
 
     col = line.rindex(token)
     assert line[col:token_end(line, col)] == token

@@ -5,9 +5,9 @@ import re
 
 import pytest
 
-from ctllint import hookspecs
-from ctllint.cli import rules_table
-from ctllint.host import PluginHost
+from ctllint.checking import hookspecs
+from ctllint.commands.cli import rules_table
+from ctllint.checking.host import PluginHost
 from ctllint.testing import case_files, load_cases
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
@@ -97,14 +97,19 @@ def test_every_hook_is_documented():
 
 
 def test_plugins_import_only_the_public_api():
-    allowed = {"ctllint", "ctllint.api", "ctllint.model", "ctllint.kinds", "ctllint.tables", "ctllint.quantities", "ctllint.hookspecs", "ctllint.testing", "ctllint.circuit", "ctllint.simulate", "ctllint.wiresets", "ctllint.terminals"}
-    for name in os.listdir(os.path.join(ROOT, "plugins")):
-        if not name.endswith(".py"):
-            continue
-        with open(os.path.join(ROOT, "plugins", name), encoding="utf-8") as handle:
-            text = handle.read()
-        for m in re.finditer(r"^\s*(?:from|import)\s+(ctllint[\w.]*)", text, re.M):
-            assert m.group(1) in allowed, f"plugins/{name} imports {m.group(1)}"
+    allowed = {"ctllint", "ctllint.api", "ctllint.reading.model", "ctllint.reading.kinds", "ctllint.circuit.tables", "ctllint.reading.quantities", "ctllint.checking.hookspecs", "ctllint.testing", "ctllint.circuit.analysis", "ctllint.circuit.simulate", "ctllint.circuit.wiresets", "ctllint.reading.terminals"}
+    seen = 0
+    for folder, dirs, files in os.walk(os.path.join(ROOT, "plugins")):
+        dirs[:] = [d for d in dirs if d not in ("__pycache__", "tests")]
+        for name in files:
+            if not name.endswith(".py"):
+                continue
+            with open(os.path.join(folder, name), encoding="utf-8") as handle:
+                text = handle.read()
+            for m in re.finditer(r"^\s*(?:from|import)\s+(ctllint(?!_plugins)[\w.]*)", text, re.M):
+                seen += 1
+                assert m.group(1) in allowed, f"{os.path.join(folder, name)} imports {m.group(1)}"
+    assert seen > 20  # the walk reached the plugins' modules
 
 
 def test_core_never_imports_plugins():
@@ -117,7 +122,7 @@ def test_core_never_imports_plugins():
 
 def test_lazy_command_table_matches_the_commands():
     from ctllint import commands
-    from ctllint.cli import COMMANDS
+    from ctllint.commands.cli import COMMANDS
 
     commands.load()
     for name, (_, help_text) in commands.LAZY.items():
@@ -125,12 +130,12 @@ def test_lazy_command_table_matches_the_commands():
 
 
 def test_readme_device_kinds_are_current():
-    from ctllint.schema import kinds_table
+    from ctllint.output.schema import kinds_table
 
     with open(os.path.join(ROOT, "README.md"), encoding="utf-8") as handle:
         readme = handle.read()
     m = re.search(r"<!-- kinds:start -->\n(.*?)<!-- kinds:end -->", readme, re.S)
-    assert m and m.group(1) == kinds_table(), "README device kinds are stale: regenerate with ctllint.schema.kinds_table()"
+    assert m and m.group(1) == kinds_table(), "README device kinds are stale: regenerate with ctllint.output.schema.kinds_table()"
 
 
 def test_readme_tour_example_is_clean():

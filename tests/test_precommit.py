@@ -77,7 +77,7 @@ def test_pre_commit_blocks_then_passes(tmp_path, hook_repo):
 
 def test_changed_device_file_checks_its_users(tmp_path, monkeypatch, capsys):
     """pre-commit passes only changed files: a changed shared device file brings in the schematics using it."""
-    from ctllint.cli import main
+    from ctllint.commands.cli import main
 
     (tmp_path / ".git").mkdir()
     (tmp_path / "lib").mkdir()

@@ -5,8 +5,8 @@ import textwrap
 
 import pytest
 
-from ctllint import progress
-from ctllint.cli import main
+from ctllint.output import progress
+from ctllint.commands.cli import main
 
 CLEAN = textwrap.dedent("""\
     ctllint: 1

@@ -10,8 +10,8 @@ import math
 
 import pytest
 
-from ctllint.model import CategoryRating, ContactRating, Device, Location, Severity
-from ctllint.quantities import parse_quantity
+from ctllint.reading.model import CategoryRating, ContactRating, Device, Location, Severity
+from ctllint.reading.quantities import parse_quantity
 from ctllint.testing import check_text
 from ctllint_plugins import ratings
 

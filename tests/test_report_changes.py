@@ -22,9 +22,9 @@ from html.parser import HTMLParser
 
 import pytest
 
-from ctllint.cli import main
-from ctllint.draw import Mark, layout
-from ctllint.loader import load_file
+from ctllint.commands.cli import main
+from ctllint.output.draw import Mark, layout
+from ctllint.reading.loader import load_file
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 DIFF = os.path.join(HERE, "data", "diff")

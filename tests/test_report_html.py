@@ -16,12 +16,12 @@ from html.parser import HTMLParser
 
 import pytest
 
-from ctllint.cli import main
-from ctllint.engine import Checker
-from ctllint.htmlreport import FileReport, render_html
-from ctllint.loader import load_file
-from ctllint.model import Severity
-from ctllint.report import SAFETY_NOTE
+from ctllint.commands.cli import main
+from ctllint.checking.engine import Checker
+from ctllint.output.htmlreport import FileReport, render_html
+from ctllint.reading.loader import load_file
+from ctllint.reading.model import Severity
+from ctllint.output.report import SAFETY_NOTE
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 DATA = os.path.join(HERE, "data", "draw")

@@ -3,11 +3,11 @@ import textwrap
 
 import pytest
 
-from ctllint.circuit import Circuit
-from ctllint.cli import main
-from ctllint.diff import semantic_diff
-from ctllint.loader import load_text
-from ctllint.terminals import assign
+from ctllint.circuit.analysis import Circuit
+from ctllint.commands.cli import main
+from ctllint.review.diff import semantic_diff
+from ctllint.reading.loader import load_text
+from ctllint.reading.terminals import assign
 from ctllint.testing import load_schematic
 
 HOA = textwrap.dedent("""\

@@ -49,7 +49,7 @@ def test_rule_has_passing_and_failing_cases(rule):
 
 def test_every_rule_of_the_plugin_is_run_here():
     """A rule added to the plugin but not to the list above would have its cases silently skipped."""
-    from ctllint.host import PluginHost
+    from ctllint.checking.host import PluginHost
 
     registered = sorted(n for n, r in PluginHost.create().rules.items() if r.plugin == "motor-control")
     assert sorted(MOTOR_CONTROL_RULES) == registered

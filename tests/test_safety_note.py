@@ -13,7 +13,7 @@ import xml.etree.ElementTree as ET
 
 import pytest
 
-from ctllint.cli import main
+from ctllint.commands.cli import main
 from ctllint.testing import THREE_WIRE_RELAY
 
 CLEAN = THREE_WIRE_RELAY

@@ -15,10 +15,10 @@ import sys
 
 import pytest
 
-from ctllint.circuit import Circuit
-from ctllint.diff import semantic_diff
-from ctllint.draw import layout
-from ctllint.loader import load_text
+from ctllint.circuit.analysis import Circuit
+from ctllint.review.diff import semantic_diff
+from ctllint.output.draw import layout
+from ctllint.reading.loader import load_text
 
 sys.path.insert(0, os.path.join(os.path.dirname(__file__), "benchmarks"))
 from generate import long_scenario, parallel_branches, repeated_titles  # noqa: E402
@@ -127,7 +127,7 @@ def test_simulate_of_a_long_scenario_grows_linearly():
 def test_simulate_rows_match_the_scenario_run_of_each_prefix():
     # The reference: each row as its own run of the steps so far (what the command used to do).
     from ctllint.commands.view import simulate_rows
-    from ctllint.model import Scenario
+    from ctllint.reading.model import Scenario
 
     sch = load(long_scenario(23))
     steps = list(sch.expect[0].steps)
@@ -259,7 +259,7 @@ def _random_schematic(rnd) -> str:
 def test_row_search_equals_the_plain_search_on_random_rungs():
     import random
 
-    from ctllint import draw
+    from ctllint.output import draw
 
     rnd = random.Random(1414)
     compared = 0

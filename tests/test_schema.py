@@ -6,8 +6,8 @@ import os
 import pytest
 from ruamel.yaml import YAML
 
-from ctllint.loader import load_file
-from ctllint.schema import build_schema
+from ctllint.reading.loader import load_file
+from ctllint.output.schema import build_schema
 
 jsonschema = pytest.importorskip("jsonschema")
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
@@ -50,7 +50,7 @@ def test_loader_and_schema_both_reject_format_errors(validator, path):
 
 
 def test_schema_command_prints_json(capsys):
-    from ctllint.cli import main
+    from ctllint.commands.cli import main
 
     assert main(["schema"]) == 0
     doc = json.loads(capsys.readouterr().out)

@@ -11,7 +11,7 @@ import os
 
 import pytest
 
-from ctllint.cli import main
+from ctllint.commands.cli import main
 
 DEVICES = """ctllint: 1
 devices:

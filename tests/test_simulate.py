@@ -1,12 +1,12 @@
-"""Tests of ctllint.simulate: the behaviour model of FORMAT.md."""
+"""Tests of ctllint.circuit.simulate: the behaviour model of FORMAT.md."""
 from __future__ import annotations
 
 import pytest
 
-from ctllint.circuit import Circuit
+from ctllint.circuit.analysis import Circuit
 from ctllint.testing import load_schematic
-from ctllint.model import Schematic
-from ctllint.simulate import ScenarioEvent, Simulator, StepResult
+from ctllint.reading.model import Schematic
+from ctllint.circuit.simulate import ScenarioEvent, Simulator, StepResult
 
 HEAD = """ctllint: 1
 supplies:

@@ -9,9 +9,9 @@ import textwrap
 
 import pytest
 
-from ctllint.loader import load_text
-from ctllint.model import Element, Location, Path
-from ctllint.yamlsafe import Limits, MappingNode, SequenceNode, YamlProblem, compose
+from ctllint.reading.loader import load_text
+from ctllint.reading.model import Element, Location, Path
+from ctllint.reading.yamlsafe import Limits, MappingNode, SequenceNode, YamlProblem, compose
 
 from test_loader import GOOD
 

@@ -1,4 +1,4 @@
-"""Tests of ctllint.tables against published values.
+"""Tests of ctllint.circuit.tables against published values.
 
 Every expected number below is transcribed from the project's check values
 (/work/shared/CHECK-VALUES.md) or the published source named beside it, not
@@ -11,8 +11,8 @@ import math
 
 import pytest
 
-from ctllint import tables
-from ctllint.tables import (
+from ctllint.circuit import tables
+from ctllint.circuit.tables import (
     HP_W,
     NEMA_SIZE_CURRENT,
     STANDARD_RATINGS,
@@ -402,7 +402,7 @@ def test_r300_at_24vdc():
 @pytest.mark.parametrize(("volts", "column"), [(125.0, 0), (250.0, 1), (301.0, 2), (600.0, 2)])
 def test_pilot_duty_dc_columns(letter, volts, column):
     # At the column voltages and above 300 V, the published columns (same
-    # transcription as ctllint.tables: both from CHECK-VALUES.md; second
+    # transcription as ctllint.circuit.tables: both from CHECK-VALUES.md; second
     # reading: the 125 V and 250 V columns agree with VA / V to the figures'
     # rounding, checked in test_dc_columns_agree_with_va_over_v).
     continuous, columns, _va = NEMA_DC[letter]

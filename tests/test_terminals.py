@@ -10,11 +10,11 @@ import textwrap
 
 import pytest
 
-from ctllint.cli import main
-from ctllint.kinds import KindRegistry
-from ctllint.loader import load_text
-from ctllint.schema import build_schema
-from ctllint.terminals import assign, parse
+from ctllint.commands.cli import main
+from ctllint.reading.kinds import KindRegistry
+from ctllint.reading.loader import load_text
+from ctllint.output.schema import build_schema
+from ctllint.reading.terminals import assign, parse
 
 HEAD = """\
 ctllint: 1

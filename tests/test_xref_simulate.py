@@ -6,7 +6,7 @@ import textwrap
 
 import pytest
 
-from ctllint.cli import main
+from ctllint.commands.cli import main
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 PRESS = os.path.join(HERE, "data", "draw", "press.ctl.yaml")

@@ -13,8 +13,8 @@ import re
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from ctllint.loader import load_file, load_text
-from ctllint.yamlhints import comma_in_text, explain
+from ctllint.reading.loader import load_file, load_text
+from ctllint.reading.yamlhints import comma_in_text, explain
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 CASES = sorted(glob.glob(os.path.join(ROOT, "tests", "data", "format-errors", "yaml-*.ctl.yaml")))
@@ -120,7 +120,7 @@ def test_a_misspelt_key_after_a_comma_keeps_did_you_mean():
 def test_many_cut_off_keys_split_the_file_once(monkeypatch):
     """A file of 2,000 devices each with a cut-off text is split into lines once, not once per key
     (a hostile file of many such keys would otherwise cost the file's size times their number)."""
-    import ctllint.yamlhints as hints
+    import ctllint.reading.yamlhints as hints
 
     splits = []
     real = hints._lines

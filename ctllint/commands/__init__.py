@@ -1,6 +1,8 @@
-"""Further ``ctllint`` sub-commands, one module each, imported only when used.
+"""Stage 6, commands: the command line (``cli``) and its sub-commands, imported only when used.
 
-A module registers itself with ``ctllint.cli.command(name, help)`` applied
+May import every stage (reading, circuit, api, checking, review, output).
+
+A module registers itself with ``ctllint.commands.cli.command(name, help)`` applied
 to a ``(configure, run)`` pair. ``LAZY`` maps each command to its module and
 its one-line help, so that ``ctllint check`` starts without importing the
 drawing, report and diff code, and ``ctllint --help`` still lists them all.

@@ -8,7 +8,7 @@ Three ways to call it::
 
 It prints, per file and per rung, the devices, supplies, rungs, elements,
 expect scenarios and findings that changed, with wire renumbering shown as
-"wire 3 -> 13" (see ``ctllint.diff``). ``--format json`` prints the same as
+"wire 3 -> 13" (see ``ctllint.review.diff``). ``--format json`` prints the same as
 one JSON object. The exit status is 0 whatever changed (a diff is not a
 failure), 2 for a usage error (a missing file, a bad revision, not a git
 repository).
@@ -50,13 +50,13 @@ import subprocess
 import sys
 import tempfile
 
-from ..cli import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, settings_for, setup, write_output
-from ..diff import Revision, SchematicDiff, diff_revisions, render_json, render_text
-from ..engine import Checker
-from ..loader import SCHEMATIC_SUFFIXES
-from ..report import use_colour
-from ..safeio import ReadProblem, git_blob, read_bytes
-from ..yamlsafe import Limits, MappingNode, ScalarNode, SequenceNode, YamlProblem, compose
+from ctllint.commands.cli import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, settings_for, setup, write_output
+from ctllint.review.diff import Revision, SchematicDiff, diff_revisions, render_json, render_text
+from ctllint.checking.engine import Checker
+from ctllint.reading.loader import SCHEMATIC_SUFFIXES
+from ctllint.output.report import use_colour
+from ctllint.reading.safeio import ReadProblem, git_blob, read_bytes
+from ctllint.reading.yamlsafe import Limits, MappingNode, ScalarNode, SequenceNode, YamlProblem, compose
 
 DEV_NULL = "/dev/null"
 

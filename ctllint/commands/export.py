@@ -3,8 +3,8 @@ from __future__ import annotations
 
 import argparse
 
-from ..cli import EXIT_OK, command, write_output
-from .view import _one_file, _refuse_unloadable
+from ctllint.commands.cli import EXIT_OK, command, write_output
+from ctllint.commands.view import _one_file, _refuse_unloadable
 
 EXPORT_HELP = """\
 Write one of a schematic's panel documents as CSV (a header row, one row
@@ -37,7 +37,7 @@ printed), 2 usage or configuration error.
 
 
 def _configure(p: argparse.ArgumentParser) -> None:
-    from ..export import DEFAULT_STRIP, KINDS
+    from ctllint.output.export import DEFAULT_STRIP, KINDS
 
     p.description = EXPORT_HELP
     p.formatter_class = argparse.RawDescriptionHelpFormatter
@@ -45,13 +45,13 @@ def _configure(p: argparse.ArgumentParser) -> None:
     p.add_argument("path", metavar="FILE", help="a schematic file (*.ctl.yaml)")
     p.add_argument("-o", "--output", metavar="OUT", help="write to OUT (atomically) instead of standard output")
     p.add_argument("--strip", default=DEFAULT_STRIP, metavar="NAME", help=f"name of the terminal strip field wires pass (default {DEFAULT_STRIP})")
-    from ..cli import add_config_args
+    from ctllint.commands.cli import add_config_args
 
     add_config_args(p)
 
 
 def _run(args: argparse.Namespace) -> int:
-    from ..export import export
+    from ctllint.output.export import export
 
     loaded, _shown, _cfg, host = _one_file(args, args.path)
     refused = _refuse_unloadable(loaded)
@@ -60,7 +60,7 @@ def _run(args: argparse.Namespace) -> int:
     write_output(export(args.kind, loaded.schematic, host.kinds, args.strip), args.output)
     import sys
 
-    from ..report import SAFETY_NOTE
+    from ctllint.output.report import SAFETY_NOTE
 
     print(SAFETY_NOTE, file=sys.stderr)  # on standard error: the CSV stays a plain table
     return EXIT_OK

@@ -1,9 +1,9 @@
-"""``ctllint lsp``: the language server for editors (see ``ctllint.lsp``)."""
+"""``ctllint lsp``: the language server for editors (see ``ctllint.commands.editor.server``)."""
 from __future__ import annotations
 
 import argparse
 
-from ..cli import UsageError, command
+from ctllint.commands.cli import UsageError, command
 
 LSP_HELP = """\
 Run ctllint as a language server: the Language Server Protocol over
@@ -34,7 +34,7 @@ def _configure_lsp(p: argparse.ArgumentParser) -> None:
 
 def _run_lsp(args: argparse.Namespace) -> int:
     try:
-        from .. import lsp
+        from ctllint.commands.editor import server as lsp
     except ImportError as exc:
         raise UsageError(f"ctllint lsp needs pygls ({exc}); install it with: python -m pip install 'ctllint[lsp]'") from None
     debounce = lsp.DEFAULT_DEBOUNCE if args.debounce is None else args.debounce

@@ -6,7 +6,7 @@ import json
 import os
 import sys
 
-from ..cli import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, setup, write_output
+from ctllint.commands.cli import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, setup, write_output
 
 STARTER_CONFIG = """\
 # ctllint configuration: see 'ctllint rules' and 'ctllint explain RULE'.
@@ -66,7 +66,7 @@ def _configure_schema(p: argparse.ArgumentParser) -> None:
 
 
 def _run_schema(args: argparse.Namespace) -> int:
-    from ..schema import build_schema
+    from ctllint.output.schema import build_schema
 
     _, host = setup(args)
     write_output(json.dumps(build_schema(host.kinds), indent=2, sort_keys=False) + "\n", args.output)
@@ -83,7 +83,7 @@ def _configure_init(p: argparse.ArgumentParser) -> None:
 
 
 def _run_init(args: argparse.Namespace) -> int:
-    from ..schema import build_schema
+    from ctllint.output.schema import build_schema
 
     folder = args.folder
     if not os.path.isdir(folder):

@@ -8,14 +8,14 @@ import pathlib
 import shutil
 import sys
 
-from ..budget import work
-from ..cli import (EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_plugins_arg, add_quiet_arg, command, exit_note, printable,
+from ctllint.reading.budget import work
+from ctllint.commands.cli import (EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_plugins_arg, add_quiet_arg, command, exit_note, printable,
                    printable_diagnostic, settings_for, setup, split_names, write_output)
-from ..discover import discover, display_path
-from ..engine import Checker
-from ..loader import LoadResult, load_file
-from ..model import Diagnostic, Location, Scenario, Schematic, Severity, Step
-from ..report import SAFETY_NOTE, render_text, summary_line
+from ctllint.checking.discover import discover, display_path
+from ctllint.checking.engine import Checker
+from ctllint.reading.loader import LoadResult, load_file
+from ctllint.reading.model import Diagnostic, Location, Scenario, Schematic, Severity, Step
+from ctllint.output.report import SAFETY_NOTE, render_text, summary_line
 
 # -- shared -------------------------------------------------------------------------
 
@@ -91,7 +91,7 @@ def _run_draw(args: argparse.Namespace) -> int:
 
 
 def _draw(args: argparse.Namespace, loaded: LoadResult, shown: str, cfg, host) -> int:
-    from ..draw import layout
+    from ctllint.output.draw import layout
 
     refused = _refuse_unloadable(loaded)
     if refused is not None:
@@ -161,7 +161,7 @@ def _configure_report(p: argparse.ArgumentParser) -> None:
 
 
 def _run_report(args: argparse.Namespace) -> int:
-    from ..htmlreport import FileReport, render_html
+    from ctllint.output.htmlreport import FileReport, render_html
 
     cfg, host = setup(args)
     settings = settings_for(cfg, host, split_names(args.select) or None, split_names(args.ignore))
@@ -171,7 +171,7 @@ def _run_report(args: argparse.Namespace) -> int:
     base = _git_base(args.changes_since, targets) if args.changes_since is not None else None
     checker = Checker(host, settings, cfg.limits)
     files = []
-    from ..progress import Meters
+    from ctllint.output.progress import Meters
 
     with Meters(args.quiet) as meters:  # on a terminal: files checked, then files drawn, of the total
         meter = meters.start(len(targets)) if meters.start else None
@@ -211,7 +211,7 @@ def _repo_rel(path: str, top: str) -> str | None:
 
 def _git_base(rev: str, targets) -> tuple[str, str]:
     """The repository's top folder and the commit ``rev`` names; a UsageError (exit 2) when either cannot be had."""
-    from .diff import _git_cmd, _resolve
+    from ctllint.commands.diff import _git_cmd, _resolve
 
     if shutil.which("git") is None:
         raise UsageError("ctllint: --changes-since needs the git program on PATH")
@@ -245,7 +245,7 @@ def _repo_shown(rel: str, top: str, up: bool = False) -> str:
 
 def _in_scope(rel: str, top: str, given: list[str], exclude: list[str], base: str | None) -> bool:
     """Whether the report would have checked a schematic at ``rel`` (for a file deleted since the revision)."""
-    from ..discover import SKIP_DIRS, excluded, is_schematic_name
+    from ctllint.checking.discover import SKIP_DIRS, excluded, is_schematic_name
 
     if not is_schematic_name(rel):
         return False
@@ -272,9 +272,9 @@ def _changes_since(rev: str, base: tuple[str, str], targets, files, checker: Che
     """
     import tempfile
 
-    from ..diff import Revision, SchematicDiff, diff_revisions, semantic_diff
-    from ..htmlreport import Changes, FileChange
-    from .diff import _dependents, _git_cmd, _name_status, _RevisionTree
+    from ctllint.review.diff import Revision, SchematicDiff, diff_revisions, semantic_diff
+    from ctllint.output.htmlreport import Changes, FileChange
+    from ctllint.commands.diff import _dependents, _git_cmd, _name_status, _RevisionTree
 
     top, sha = base
     listing = _git_cmd(["diff", "--name-status", "-z", "-M", "--no-ext-diff", "--no-relative", sha, "--"], cwd=top)
@@ -379,8 +379,8 @@ def _rungs_text(numbers: list[int]) -> str:
 
 def xref_rows(sch: Schematic, coil_kinds: set[str], kinds=None) -> list[dict[str, str]]:
     """One row per device of a coil kind that the rungs use or declare."""
-    from ..draw import coil_uses
-    from ..terminals import assign
+    from ctllint.output.draw import coil_uses
+    from ctllint.reading.terminals import assign
 
     uses = coil_uses(sch)
     marks = assign(sch, kinds)
@@ -550,7 +550,7 @@ def parse_step(text: str, index: int, sch: Schematic, sim) -> Step:
         step.target_locs[""] = loc
         return step
     if action == "wait":
-        from ..quantities import QuantityError, parse_quantity
+        from ctllint.reading.quantities import QuantityError, parse_quantity
 
         try:
             step.seconds = parse_quantity(rest, "time").value
@@ -703,7 +703,7 @@ def _run_simulate(args: argparse.Namespace) -> int:
 
 
 def _simulate(args: argparse.Namespace, loaded: LoadResult, shown: str) -> int:
-    from ..circuit import Circuit
+    from ctllint.circuit.analysis import Circuit
 
     refused = _refuse_unloadable(loaded)
     if refused is not None:

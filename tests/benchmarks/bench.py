@@ -84,13 +84,13 @@ def in_process(path: str, repeats: int) -> float:
 # Work of the commands other than check, timed in a process already started (best of the repeats):
 # a drawing, a diff of two revisions, a simulation of a file's first scenario.
 WORK = {
-    "draw": ("from ctllint.draw import layout\n"
+    "draw": ("from ctllint.output.draw import layout\n"
              "sch = load_file(sys.argv[1]).schematic\n"
              "run = lambda: layout(sch)\n"),
-    "diff": ("from ctllint.diff import semantic_diff\n"
+    "diff": ("from ctllint.review.diff import semantic_diff\n"
              "old, new = load_file(sys.argv[1]).schematic, load_file(sys.argv[2]).schematic\n"
              "run = lambda: semantic_diff(old, new)\n"),
-    "simulate": ("from ctllint.circuit import Circuit\n"
+    "simulate": ("from ctllint.circuit.analysis import Circuit\n"
                  "from ctllint.commands.view import simulate_rows\n"
                  "sch = load_file(sys.argv[1]).schematic\n"
                  "run = lambda: simulate_rows(Circuit(sch).simulator(), list(sch.expect[0].steps))\n"),
@@ -101,7 +101,7 @@ def work_in_process(kind: str, paths: list[str], repeats: int) -> float:
     code = (
         "import gc, sys, time\n"
         "gc.disable()\n"
-        "from ctllint.loader import load_file\n"
+        "from ctllint.reading.loader import load_file\n"
         + WORK[kind]
         + "run()\n"
         "best = min((lambda t: (run(), time.perf_counter() - t)[1])(time.perf_counter()) for _ in range(int(sys.argv[-1])))\n"
@@ -295,13 +295,13 @@ def main() -> None:
 
     # What progress adds to a run's start-up, timed inside a fresh interpreter (a whole-process
     # difference of a few milliseconds is lost in the noise of process start): importing
-    # ctllint.progress once ctllint is loaded, deciding to show it, and a meter taking
+    # ctllint.output.progress once ctllint is loaded, deciding to show it, and a meter taking
     # 10,000 files on a terminal (stderr is a pseudo-terminal here).
     cost_code = ("import sys, time, os, pty\n"
-                 "import ctllint, ctllint.report\n"
+                 "import ctllint, ctllint.output.report\n"
                  "m, s = pty.openpty(); sys.stderr = os.fdopen(s, 'w')\n"
                  "t = time.perf_counter()\n"
-                 "from ctllint.progress import Meters\n"
+                 "from ctllint.output.progress import Meters\n"
                  "with Meters(False) as meters:\n"
                  "    meter = meters.start(10000)\n"
                  "    for _ in range(10000): meter.advance(1)\n"

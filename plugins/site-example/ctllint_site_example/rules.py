@@ -15,8 +15,7 @@ import re
 from typing import Iterator
 
 from ctllint import hookimpl
-from ctllint.api import CheckContext, Example, Finding, Option, Rule
-from ctllint.model import Severity
+from ctllint.api import CheckContext, Example, Finding, Option, Rule, Severity
 
 DEFAULT_PREFIXES = {
     "pushbutton": "PB",

@@ -2,8 +2,8 @@
 import sys
 
 from ctllint.api import Rule
-from ctllint.hookspecs import hookimpl
-from ctllint.model import Severity
+from ctllint.checking.hookspecs import hookimpl
+from ctllint.reading.model import Severity
 
 
 def _exit(ctx):

@@ -2,8 +2,8 @@
 import itertools
 
 from ctllint.api import Finding, Rule
-from ctllint.hookspecs import hookimpl
-from ctllint.model import Location, Severity
+from ctllint.checking.hookspecs import hookimpl
+from ctllint.reading.model import Location, Severity
 
 
 def _number(ctx):

@@ -1,7 +1,7 @@
 """A plugin that registers garbage: not Rules, Rules with unusable fields (tests/test_hostile.py)."""
 from ctllint.api import Rule
-from ctllint.hookspecs import hookimpl
-from ctllint.model import Severity
+from ctllint.checking.hookspecs import hookimpl
+from ctllint.reading.model import Severity
 
 
 def _check(ctx):
@@ -24,6 +24,6 @@ def ctllint_rules():
 
 @hookimpl
 def ctllint_device_kinds():
-    from ctllint.kinds import DeviceKind
+    from ctllint.reading.kinds import DeviceKind
 
     return [object(), DeviceKind(["unhashable"], {}), DeviceKind("bad-fields", {"x": 1})]

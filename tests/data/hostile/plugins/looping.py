@@ -1,7 +1,7 @@
 """A plugin whose rule never returns (tests/test_hostile.py)."""
 from ctllint.api import Rule
-from ctllint.hookspecs import hookimpl
-from ctllint.model import Severity
+from ctllint.checking.hookspecs import hookimpl
+from ctllint.reading.model import Severity
 
 
 def _forever(ctx):

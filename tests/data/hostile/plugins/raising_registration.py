@@ -1,5 +1,5 @@
 """A plugin whose ctllint_rules itself raises (tests/test_hostile.py)."""
-from ctllint.hookspecs import hookimpl
+from ctllint.checking.hookspecs import hookimpl
 
 
 @hookimpl

@@ -1,0 +1,50 @@
+"""The house's layout, held to what DEVELOPERS.md says of it.
+
+The core's stages import downwards only, the core never imports the built-in
+plugins, and no package has an import circle: the three contracts in
+pyproject.toml's ``[tool.importlinter]``, checked with import-linter (a
+maintained library for exactly this). The contracts are also checked to be
+able to fail: an upward import written into a copy of the tree breaks them.
+"""
+from __future__ import annotations
+
+import os
+import shutil
+import subprocess
+import sys
+
+import pytest
+
+ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+LINT = [sys.executable, "-c", "import sys; from importlinter.cli import lint_imports_command; sys.exit(lint_imports_command())"]
+
+
+def lint_imports(cwd: str, env: dict | None = None) -> subprocess.CompletedProcess:
+    return subprocess.run(LINT + ["--no-cache"], cwd=cwd, capture_output=True, text=True, env=env)
+
+
+def test_import_contracts_are_kept():
+    proc = lint_imports(ROOT)
+    assert proc.returncode == 0, proc.stdout + proc.stderr
+    assert "3 kept, 0 broken" in proc.stdout
+
+
+@pytest.mark.parametrize("importer, imported, contract", [
+    ("ctllint/reading/quantities.py", "ctllint.output.report", "stages"),
+    ("ctllint/circuit/wiresets.py", "ctllint_plugins.behaviour", "core never imports"),
+    ("ctllint/output/draw.py", "ctllint.commands.cli", "stages"),
+])
+def test_an_upward_import_breaks_a_contract(tmp_path, importer, imported, contract):
+    tree = tmp_path / "tree"
+    shutil.copytree(ROOT, tree, ignore=shutil.ignore_patterns(".git", ".venv", "__pycache__", "fixtures", "tests", "*.egg-info"))
+    with open(tree / importer, "a", encoding="utf-8") as handle:
+        handle.write(f"\nimport {imported}  # an import against the flow\n")
+    # the copy's packages come first on the path (the plugins folder under its installed name)
+    (tmp_path / "paths").mkdir()
+    os.symlink(tree / "ctllint", tmp_path / "paths" / "ctllint")
+    os.symlink(tree / "plugins", tmp_path / "paths" / "ctllint_plugins")
+    env = dict(os.environ, PYTHONPATH=str(tmp_path / "paths"))
+    proc = lint_imports(str(tree), env)
+    assert proc.returncode != 0, proc.stdout
+    broken = proc.stdout.split("Broken contracts")[-1]
+    assert contract in broken, proc.stdout
