@@ -225,6 +225,13 @@ def _side_text(path: list[Element], load: Element, near: Element, ctx: CheckCont
     return "-".join(items)
 
 
+def _load_words(ctx: CheckContext, load: Element) -> str:
+    """``coil M1`` for a coil, ``drive input VFD1.run`` for a drive's or soft starter's command input."""
+    if load.part == "coil":
+        return f"coil {load.tag}"
+    return f"{_device(ctx, load.tag).kind} input {load.text}"
+
+
 def _names(elements: Iterable[Element]) -> str:
     return ", ".join(e.text for e in elements)
 
@@ -270,9 +277,15 @@ def check_stop_normally_closed(ctx: CheckContext) -> Iterator[Finding]:
 # stop-in-series
 
 
+def _is_drive_input(ctx: CheckContext, el: Element, *parts: str) -> bool:
+    """``el`` is one of the named command inputs of a drive or soft starter."""
+    return el.part in parts and el.role == LOAD and getattr(_device(ctx, el.tag), "kind", None) in _DRIVE_KINDS
+
+
 def check_stop_in_series(ctx: CheckContext) -> Iterator[Finding]:
     circuit = ctx.circuit
-    coil_by_index = {c.index: c for c in _coil_loads(ctx)}
+    # A drive's run and stop inputs start and hold its motor as a coil does.
+    coil_by_index = {c.index: c for c in _coil_loads(ctx) + _drive_inputs(ctx, "run", "stop")}
     groups: dict[str, str] | None = None
     for tag, dev in ctx.schematic.devices.items():
         if not _is_stop_device(dev):
@@ -297,7 +310,7 @@ def check_stop_in_series(ctx: CheckContext) -> Iterator[Finding]:
             what = "emergency stop" if dev.get("function") == "emergency-stop" else "stop button"
             yield Finding(
                 stop.loc,
-                f"coil {coil.tag} can be energized without passing {what} {tag} "
+                f"{_load_words(ctx, coil)} can be energized without passing {what} {tag} "
                 f"(path {_side_text(path, coil, stop, ctx, groups)}): wire every path to the coil through "
                 f"{tag}, with the seal-in and other start contacts after it",
                 f"{stop.text}@{coil.text}",
@@ -373,7 +386,8 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
         for coil in circuit.served_loads(start):
             coil_dev = _device(ctx, coil.tag)
             if coil.part != "coil" or coil_dev is None or coil_dev.kind not in COIL_KINDS:
-                continue
+                if not _is_drive_input(ctx, coil, "run"):  # a drive runs only while its run input is energized
+                    continue
             if ctx.schematic.rungs[coil.rung].jog:
                 continue
             if blocks is None:
@@ -382,6 +396,17 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
             if key not in verdicts:
                 verdicts[key] = _seal_verdict(ctx, circuit, blocks, keeps, start, coil)
             verdict, bypassed, path = verdicts[key]
+            if verdict == "missing" and coil.part == "run":
+                yield Finding(
+                    start.loc,
+                    f"start button {start.tag} ({start.text}) energizes the run input {coil.text} of {coil_dev.kind} {coil.tag}, "
+                    f"but no NO contact is wired around it: the {coil_dev.kind} stops as soon as the button is released "
+                    f"(ctllint reads its inputs as levels; a drive set to latch a start pulse by itself is not modelled); "
+                    f"add a seal-in in parallel with {start.text}: its run relay {coil.tag}.NO, or a control relay started by "
+                    f"the button, sealed across it, whose NO gives the run command; or set jog: true on the rung if that is intended",
+                    f"{start.text}@{coil.text}",
+                )
+                continue
             if verdict == "missing":
                 yield Finding(
                     start.loc,
@@ -1014,7 +1039,8 @@ RULES = [
             "parallel branch reaches the coil without passing the stop, pressing stop leaves the motor "
             "running. For every coil a stop button's contact serves, the rule asks whether the coil can be "
             "energized with all of that button's contacts taken out, and names such a path. Several stop "
-            "stations belong in series; a stop wired in parallel with another is bypassed by it."
+            "stations belong in series; a stop wired in parallel with another is bypassed by it. A drive's or "
+            "soft starter's run and stop inputs are coils here: they start and hold its motor."
         ),
         source="common practice (stop buttons normally closed and in series); NFPA 79 9.2.5.3",
         check=check_stop_in_series,
@@ -1054,7 +1080,11 @@ RULES = [
             "restarts the coil when stop is released. Only a timer's instantaneous contact (instant-NO) "
             "seals. A contact of another coil that this button does not start is no seal either: wired "
             "around the start button it starts this coil whenever that one runs. The message says which "
-            "of these the wrong seal does, and the advice never suggests a timer's timed contact."
+            "of these the wrong seal does, and the advice never suggests a timer's timed contact.\n\n"
+            "A drive's or soft starter's run input is a coil here: ctllint reads its inputs as levels (it runs "
+            "while its run input is energized), so a momentary start straight to it needs a seal-in, such as "
+            "its run relay's NO across the start or an interposing relay. A drive set to latch a start pulse "
+            "by itself is not modelled: draw the interposing relay, or suppress the finding with that reason."
         ),
         source="common practice (three-wire control, low-voltage protection; timed and instantaneous timer contacts); NFPA 79 7.5",
         check=check_seal_in,
