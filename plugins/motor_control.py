@@ -64,7 +64,18 @@ Choices where the catalogue leaves room:
   contact of the emergency stop or a NO contact of a relay, timer, contactor or starter
   whose coil is governed (a master control relay, or a chain of them). The
   momentary, NO and governing problems of one device are given in one
-  finding at its tag.
+  finding at its tag. A drive's or soft starter's ``run`` input counts as
+  its motor's coil (``estop_exempt`` on the drive as on a contactor); the
+  drive is dropped when its run input is governed, or its ``stop`` input
+  where drawn (it runs only while that is energized). Its run relay's NO
+  contacts are not taken as governing what they serve: a drive's relay
+  output may be set to signal something other than "running".
+- ``stop-in-series`` and ``seal-in`` read a drive's or soft starter's
+  ``run`` input (and, for ``stop-in-series``, its ``stop`` input) as a coil:
+  the simulator runs a drive only while its run input is energized, so a
+  momentary start straight to it needs a seal-in (the drive's own run relay
+  NO can give one, as a coil's NO does); a drive set to latch a start pulse
+  by itself is not modelled.
 - ``switch-fan-out`` counts the power-inductive branches a contact makes:
   coils of contactors and starters (those that feed the same motor or
   heater are one branch, one starter assembly such as a wye-delta), solenoids
@@ -214,6 +225,13 @@ def _side_text(path: list[Element], load: Element, near: Element, ctx: CheckCont
     return "-".join(items)
 
 
+def _load_words(ctx: CheckContext, load: Element) -> str:
+    """``coil M1`` for a coil, ``drive input VFD1.run`` for a drive's or soft starter's command input."""
+    if load.part == "coil":
+        return f"coil {load.tag}"
+    return f"{_device(ctx, load.tag).kind} input {load.text}"
+
+
 def _names(elements: Iterable[Element]) -> str:
     return ", ".join(e.text for e in elements)
 
@@ -259,9 +277,15 @@ def check_stop_normally_closed(ctx: CheckContext) -> Iterator[Finding]:
 # stop-in-series
 
 
+def _is_drive_input(ctx: CheckContext, el: Element, *parts: str) -> bool:
+    """``el`` is one of the named command inputs of a drive or soft starter."""
+    return el.part in parts and el.role == LOAD and getattr(_device(ctx, el.tag), "kind", None) in _DRIVE_KINDS
+
+
 def check_stop_in_series(ctx: CheckContext) -> Iterator[Finding]:
     circuit = ctx.circuit
-    coil_by_index = {c.index: c for c in _coil_loads(ctx)}
+    # A drive's run and stop inputs start and hold its motor as a coil does.
+    coil_by_index = {c.index: c for c in _coil_loads(ctx) + _drive_inputs(ctx, "run", "stop")}
     groups: dict[str, str] | None = None
     for tag, dev in ctx.schematic.devices.items():
         if not _is_stop_device(dev):
@@ -286,7 +310,7 @@ def check_stop_in_series(ctx: CheckContext) -> Iterator[Finding]:
             what = "emergency stop" if dev.get("function") == "emergency-stop" else "stop button"
             yield Finding(
                 stop.loc,
-                f"coil {coil.tag} can be energized without passing {what} {tag} "
+                f"{_load_words(ctx, coil)} can be energized without passing {what} {tag} "
                 f"(path {_side_text(path, coil, stop, ctx, groups)}): wire every path to the coil through "
                 f"{tag}, with the seal-in and other start contacts after it",
                 f"{stop.text}@{coil.text}",
@@ -362,7 +386,8 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
         for coil in circuit.served_loads(start):
             coil_dev = _device(ctx, coil.tag)
             if coil.part != "coil" or coil_dev is None or coil_dev.kind not in COIL_KINDS:
-                continue
+                if not _is_drive_input(ctx, coil, "run"):  # a drive runs only while its run input is energized
+                    continue
             if ctx.schematic.rungs[coil.rung].jog:
                 continue
             if blocks is None:
@@ -371,6 +396,17 @@ def check_seal_in(ctx: CheckContext) -> Iterator[Finding]:
             if key not in verdicts:
                 verdicts[key] = _seal_verdict(ctx, circuit, blocks, keeps, start, coil)
             verdict, bypassed, path = verdicts[key]
+            if verdict == "missing" and coil.part == "run":
+                yield Finding(
+                    start.loc,
+                    f"start button {start.tag} ({start.text}) energizes the run input {coil.text} of {coil_dev.kind} {coil.tag}, "
+                    f"but no NO contact is wired around it: the {coil_dev.kind} stops as soon as the button is released "
+                    f"(ctllint reads its inputs as levels; a drive set to latch a start pulse by itself is not modelled); "
+                    f"add a seal-in in parallel with {start.text}: its run relay {coil.tag}.NO, or a control relay started by "
+                    f"the button, sealed across it, whose NO gives the run command; or set jog: true on the rung if that is intended",
+                    f"{start.text}@{coil.text}",
+                )
+                continue
             if verdict == "missing":
                 yield Finding(
                     start.loc,
@@ -724,12 +760,15 @@ def _governed(ctx: CheckContext, tag: str) -> set[int]:
     # when one of those is (the stop in one channel of a dual-channel circuit is enough here;
     # both channels are the safety relay's own business).
     inputs = _safety_loads(ctx, "power", "ch1", "ch2")
+    # A drive stops when its run input drops, or its stop input where drawn. Its run relay is not
+    # taken as governing what it serves (it may be set to signal something other than "running").
+    drives = _drive_inputs(ctx, "run", "stop")
     governed: set[int] = set()
     done_devices: set[str] = set()
     changed = True
     while changed:
         changed = False
-        for coil in coils + inputs:
+        for coil in coils + inputs + drives:
             if coil.index in governed or not circuit.has_energizing_path(coil):
                 continue
             if not circuit.has_energizing_path(coil, without=cut):
@@ -748,6 +787,11 @@ def _governed(ctx: CheckContext, tag: str) -> set[int]:
                 cut.extend(_contacts(ctx, load.tag, "NO"))
                 changed = True
     return governed
+
+
+def _drive_inputs(ctx: CheckContext, *parts: str) -> list[Element]:
+    """The named command inputs (``run``, ``stop``) of every drive and soft starter, file order."""
+    return [load for load in ctx.circuit.loads if load.part in parts and getattr(_device(ctx, load.tag), "kind", None) in _DRIVE_KINDS]
 
 
 def check_emergency_stop(ctx: CheckContext) -> Iterator[Finding]:
@@ -774,17 +818,21 @@ def check_emergency_stop(ctx: CheckContext) -> Iterator[Finding]:
             governed = _governed(ctx, tag)
             # A supply whose contactors it drops through a relay (a 24 VDC safety
             # relay switching 120 VAC starters) is its supply too.
-            for coil in _coil_loads(ctx):
+            # A drive's or soft starter's run input starts its motor as a starter's coil does: it is
+            # one of the "coils" to drop, and dropped when its run input or its stop input is.
+            drive_inputs = _drive_inputs(ctx, "run", "stop")
+            stopped_drives = {load.tag for load in drive_inputs if load.index in governed}
+            for coil in _coil_loads(ctx) + drive_inputs:
                 supply = circuit.supply_of(coil) if coil.index in governed else None
-                if supply is not None and supply.name not in supplies and _device(ctx, coil.tag).kind in CONTACTOR_KINDS:
+                if supply is not None and supply.name not in supplies and _device(ctx, coil.tag).kind in (*CONTACTOR_KINDS, *_DRIVE_KINDS):
                     supplies.append(supply.name)
             missed: dict[str, list[Element]] = {}  # supply name -> coils it does not drop there
-            for coil in _coil_loads(ctx):
+            for coil in _coil_loads(ctx) + [load for load in drive_inputs if load.part == "run"]:
                 coil_dev = _device(ctx, coil.tag)
                 supply = circuit.supply_of(coil)
-                if coil_dev.kind not in CONTACTOR_KINDS or supply is None or supply.name not in supplies:
+                if coil_dev.kind not in (*CONTACTOR_KINDS, *_DRIVE_KINDS) or supply is None or supply.name not in supplies:
                     continue
-                if coil.index in governed or not circuit.has_energizing_path(coil):
+                if coil.index in governed or coil.tag in stopped_drives or not circuit.has_energizing_path(coil):
                     continue
                 reason = coil_dev.get("estop_exempt")
                 if isinstance(reason, str) and reason.strip():
@@ -793,10 +841,18 @@ def check_emergency_stop(ctx: CheckContext) -> Iterator[Finding]:
             if missed:
                 # Each coil with its own supply: never a supply where nothing is missed.
                 where = "; ".join(f"{_names(coils)} on supply {name}" for name, coils in missed.items())
+                drives_missed = [c for coils in missed.values() for c in coils if c.part == "run"]
+                runs = keeps = ""
+                if drives_missed:
+                    runs = " and drive run input"
+                    keeps = "".join(
+                        f"; {_device(ctx, c.tag).kind} {c.tag} keeps "
+                        + (f"motor {_device(ctx, c.tag).get('feeds')}" if _device(ctx, c.tag).get("feeds") else "its motor") + " running"
+                        for c in drives_missed)
                 problems.append(
                     f"it does not govern {where} (each can be energized with "
-                    f"{tag} pressed): put it in series with every "
-                    f"contactor and starter coil, directly or through a master control relay it drops, "
+                    f"{tag} pressed{keeps}): put it in series with every "
+                    f"contactor and starter coil{runs}, directly or through a master control relay it drops, "
                     f"or give a device that must stay on its reason in estop_exempt"
                 )
         if problems:
@@ -983,7 +1039,8 @@ RULES = [
             "parallel branch reaches the coil without passing the stop, pressing stop leaves the motor "
             "running. For every coil a stop button's contact serves, the rule asks whether the coil can be "
             "energized with all of that button's contacts taken out, and names such a path. Several stop "
-            "stations belong in series; a stop wired in parallel with another is bypassed by it."
+            "stations belong in series; a stop wired in parallel with another is bypassed by it. A drive's or "
+            "soft starter's run and stop inputs are coils here: they start and hold its motor."
         ),
         source="common practice (stop buttons normally closed and in series); NFPA 79 9.2.5.3",
         check=check_stop_in_series,
@@ -1023,7 +1080,11 @@ RULES = [
             "restarts the coil when stop is released. Only a timer's instantaneous contact (instant-NO) "
             "seals. A contact of another coil that this button does not start is no seal either: wired "
             "around the start button it starts this coil whenever that one runs. The message says which "
-            "of these the wrong seal does, and the advice never suggests a timer's timed contact."
+            "of these the wrong seal does, and the advice never suggests a timer's timed contact.\n\n"
+            "A drive's or soft starter's run input is a coil here: ctllint reads its inputs as levels (it runs "
+            "while its run input is energized), so a momentary start straight to it needs a seal-in, such as "
+            "its run relay's NO across the start or an interposing relay. A drive set to latch a start pulse "
+            "by itself is not modelled: draw the interposing relay, or suppress the finding with that reason."
         ),
         source="common practice (three-wire control, low-voltage protection; timed and instantaneous timer contacts); NFPA 79 7.5",
         check=check_seal_in,
@@ -1087,9 +1148,15 @@ RULES = [
             "A contactor or starter whose device gives a reason in estop_exempt (a freeze-protection heater, "
             "panel cooling: no motion hazard, and the risk assessment keeps it on) is left out (an empty "
             "reason is a format error). The message names each coil that is not dropped with its own supply, "
-            "never a supply on which the emergency stop drops everything it must."
+            "never a supply on which the emergency stop drops everything it must.\n\n"
+            "A drive's or soft starter's run input is its motor's start command and counts as its coil: the "
+            "emergency stop must drop it directly, through a relay it drops, or by dropping the drive's stop "
+            "input where one is drawn (the drive runs only while that is energized). Dropping the run command "
+            "gives a stop by command (common practice for stop category 1); whether the drive's power or its "
+            "safe torque off must also be removed is for the machine's risk assessment and stop category, "
+            "which ctllint does not see. A drive may give estop_exempt as a contactor does."
         ),
-        source="NFPA 79 9.2.5.4 / IEC 60204-1 10.7 (emergency stop devices), ISO 13850",
+        source="NFPA 79 9.2.5.4 / IEC 60204-1 10.7 (emergency stop devices), ISO 13850; drive run inputs: IEC 60204-1 9.2.2 stop categories, from memory, and common practice",
         check=check_emergency_stop,
         failing=Example("momentary emergency stop", "devices:\n  ES1: {kind: pushbutton, function: emergency-stop}\n"),
         passing=Example("latching emergency stop through an MCR", "devices:\n  ES1: {kind: pushbutton, function: emergency-stop, action: maintained}\nrungs:\n  - paths:\n      - [L1, ES1.NC, 2, MCR.coil, X2]\n      - [L1, MCR.NO, 3, PB1.NC, 4, PB2.NO, 5, M1.coil, 6, OL1.NC, X2]\n"),

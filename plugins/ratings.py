@@ -369,7 +369,9 @@ def _served_figures(ctx, element: Element) -> list[tuple[Supply, list[LoadFigure
 
 
 def _check_contact(ctx, element: Element, device: Device, what: str = "contact") -> Iterator[Finding]:
-    rating = device.get("rating")
+    # A motor-protective breaker's ``rating`` is its frame current; its contacts have ``contact_rating``.
+    field = "contact_rating" if device.kind == "motor-breaker" else "rating"
+    rating = device.get(field)
     if not isinstance(rating, ContactRating):
         return
     for supply, figures in _served_figures(ctx, element):
@@ -398,7 +400,7 @@ def _check_contact(ctx, element: Element, device: Device, what: str = "contact")
         yield Finding(
             at=element.loc,
             message=(
-                f"{duty_text()}; {device.tag}'s rating {_limits_text(best)} ({'; '.join(over)}): "
+                f"{duty_text()}; {device.tag}'s {field.replace('_', ' ')} {_limits_text(best)} ({'; '.join(over)}): "
                 f"drive the loads through an interposing relay or use {_article_of(what)} {what} of higher rating"
             ),
             subject=_subject(ctx, element),

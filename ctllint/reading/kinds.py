@@ -339,6 +339,8 @@ _DRIVE_FIELDS = {
     "coil": FieldSpec(VOLTAGE, doc="rated voltage of its command inputs"),
     "current": FieldSpec(CURRENT, doc="current drawn by one command input (a few mA)"),
     "feeds": FieldSpec(TAG, tag_kinds=("motor",), doc="the motor it runs and protects"),
+    # As a contactor's: a drive may run a motor that must stay on through an emergency stop (freeze protection).
+    "estop_exempt": _CONTACTOR_FIELDS["estop_exempt"],
     **_CONTACT_FIELDS,
 }
 BUILTIN_KINDS += tuple(
