@@ -36,7 +36,11 @@ _MOVED = {
     "simulate": "circuit.simulate", "host": "checking.host", "engine": "checking.engine",
     "hookspecs": "checking.hookspecs", "config": "checking.config", "suppress": "checking.suppress",
     "report": "output.report", "draw": "output.draw", "schema": "output.schema", "diff": "review.diff",
-    "cli": "commands.cli",
+    "yamlhints": "reading.yamlhints", "budget": "reading.budget",
+    "run": "checking.run", "discover": "checking.discover", "baseline": "checking.baseline",
+    "core_rules": "checking.core_rules", "htmlreport": "output.htmlreport", "export": "output.export",
+    "progress": "output.progress", "cli": "commands.cli", "lsp": "commands.editor.server",
+    "editing": "commands.editor.editing",
 }
 
 

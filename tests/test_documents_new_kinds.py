@@ -3,7 +3,7 @@
 The wire list, terminal plan and bill-of-materials rows below were written by
 hand from the drawing of MIXER, by the rules README "Panel documents" and
 "Terminal numbers" give: a safety relay's inputs A1-A2, S11-S12, S21-S22,
-Y1-Y2 (ctllint.terminals, from memory of such modules); a drive's or soft
+Y1-Y2 (ctllint.reading.terminals, from memory of such modules); a drive's or soft
 starter's command inputs RUN+/RUN- and STP+/STP- (our own marks); a
 breaker used bare 1-2; every device's contacts numbered in file order, NC
 x1-x2, NO x3-x4 (a drive's fault relay contact and a motor breaker's
@@ -12,10 +12,10 @@ pushbuttons in the field, everything else in the panel.
 """
 import textwrap
 
-from ctllint.cli import main
-from ctllint.diff import ADDED, CHANGED, MOVED, REMOVED, render_text, semantic_diff
-from ctllint.export import bom_rows, export
-from ctllint.loader import load_text
+from ctllint.commands.cli import main
+from ctllint.review.diff import ADDED, CHANGED, MOVED, REMOVED, render_text, semantic_diff
+from ctllint.output.export import bom_rows, export
+from ctllint.reading.loader import load_text
 
 MIXER = textwrap.dedent("""\
     ctllint: 1

@@ -48,3 +48,30 @@ def test_an_upward_import_breaks_a_contract(tmp_path, importer, imported, contra
     assert proc.returncode != 0, proc.stdout
     broken = proc.stdout.split("Broken contracts")[-1]
     assert contract in broken, proc.stdout
+
+
+# -- the old module names ------------------------------------------------------
+
+def test_old_module_names_still_import_with_a_deprecation_warning():
+    # a site's plugin written against the flat layout keeps working for now
+    code = (
+        "import warnings, json\n"
+        "warnings.simplefilter('always')\n"
+        "with warnings.catch_warnings(record=True) as seen:\n"
+        "    from ctllint.model import Severity\n"
+        "    from ctllint.circuit import path_text\n"
+        "    import ctllint.tables as tables\n"
+        "import ctllint.reading.model, ctllint.circuit.paths, ctllint.circuit.tables\n"
+        "print(json.dumps([Severity is ctllint.reading.model.Severity, path_text is ctllint.circuit.paths.path_text,\n"
+        "                  tables is ctllint.circuit.tables, [str(w.category.__name__) for w in seen],\n"
+        "                  [str(w.message) for w in seen]]))\n"
+    )
+    proc = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT)
+    assert proc.returncode == 0, proc.stderr
+    import json
+
+    same_model, same_path_text, same_tables, categories, messages = json.loads(proc.stdout)
+    assert same_model and same_path_text and same_tables
+    assert categories == ["DeprecationWarning"] * 3
+    assert "ctllint.model is now ctllint.reading.model" in messages[0]
+    assert "ctllint.circuit.analysis.path_text" in messages[1]

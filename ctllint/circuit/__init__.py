@@ -20,5 +20,6 @@ def __getattr__(name):
     if hasattr(analysis, name):
         warnings.warn(f"ctllint.circuit.{name} is now ctllint.circuit.analysis.{name}: import it from there",
                       DeprecationWarning, stacklevel=2)
-        return getattr(analysis, name)
+        value = globals()[name] = getattr(analysis, name)  # warned once; the import system looks twice
+        return value
     raise AttributeError(f"module 'ctllint.circuit' has no attribute {name!r}")
