@@ -1,11 +1,14 @@
 """Stage 2, circuit: a schematic as a graph, and the questions rules ask of it.
 
-``analysis`` builds one circuit per schematic (wires are nodes, elements are
-edges) and answers RULES.md's shared terms once, lazily (supply of a load,
-energizing paths, serves, in series, shorts); ``paths`` holds the pieces
-shared with ``simulate``, the behaviour model; ``wiresets`` is the
-union-find the analyses and the simulator build on; ``tables`` holds the
-published rating tables the sizing rules compare with.
+``graph`` builds one circuit per schematic (wires are nodes, elements are
+edges); ``analysis`` holds ``Circuit``, which answers RULES.md's shared
+terms on it once, lazily (supply of a load, energizing paths, serves, in
+series, shorts), from each load's route (``routes``) and the algorithms on
+plain edge lists (``edges``, ``serving``); ``paths`` holds the pieces
+shared with ``simulate``, the behaviour model (a package: devices, state,
+settling, timers, scenarios); ``wiresets`` is the union-find the analyses
+and the simulator build on; ``tables`` holds the published rating tables
+the sizing rules compare with.
 
 May import: ``ctllint.reading``.
 """
