@@ -158,7 +158,7 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
     pending: list[Node | None] = []  # per open mapping: the key waiting for its value
     anchors: dict[str, Node] = {}
     open_ids: set[int] = set()
-    root: Node | None = None
+    roots: list[Node] = []  # the document's root, once complete
     documents = 0
 
     def problem(node_or_event: Any, message: str) -> YamlProblem:
@@ -167,40 +167,7 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
             return YamlProblem(mark.line + 1, mark.column + 1, message)
         return YamlProblem(node_or_event.line, node_or_event.column, message)
 
-    def attach(node: Node) -> None:
-        nonlocal root
-        if not stack:
-            root = node
-            return
-        parent = stack[-1]
-        parent.size += node.size
-        if parent.size > limits.max_nodes:
-            raise YamlProblem(node.line, node.column, f"document expands to more than {limits.max_nodes} values (aliases included); limit max_nodes")
-        if isinstance(parent, SequenceNode):
-            if parent.streamed:
-                parent.streamed(None, node)
-            else:
-                parent.value.append(node)
-            return
-        key = pending[-1]
-        if key is None:
-            if not isinstance(node, ScalarNode):
-                raise YamlProblem(node.line, node.column, "a key must be a plain value, not a list or mapping")
-            resolved = scalar_value(node)
-            if isinstance(resolved, float) and math.isnan(resolved):
-                resolved = "nan"
-            hkey = resolved if isinstance(resolved, str) else (type(resolved).__name__, resolved)
-            seen = keys[-1]
-            if hkey in seen:
-                raise YamlProblem(node.line, node.column, f"duplicate key '{_short(node.value)}' (first at line {seen[hkey]})")
-            seen[hkey] = node.line  # the line only: a large mapping's key nodes need not stay alive
-            pending[-1] = node
-        else:
-            pending[-1] = None
-            if parent.streamed:
-                parent.streamed(key, node)
-            else:
-                parent.value.append((key, node))
+    attach = _attacher(limits, stack, keys, pending, roots)
 
     # Nodes on one line share one int for it, and equal short texts share one
     # string: most of a large file's scalars are short and repeated, and every
@@ -278,7 +245,63 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
                     raise problem(event, "a schematic file holds one YAML document; remove the second '---'")
     except YamlProblem:
         raise
-    except MarkedYAMLError as exc:
+    except (YAMLError, RecursionError) as exc:
+        raise _parser_problem(text, exc, limits) from None
+    root = roots[0] if roots else None
+    if root is not None and isinstance(root, ScalarNode) and root.plain and root.value in _NULL:
+        return None
+    return root
+
+
+def _attacher(limits: Limits, stack: list[Node], keys: list[dict], pending: list[Node | None], roots: list[Node]) -> Callable[[Node], None]:
+    """``attach(node)``: put a complete node into the open collection (``stack[-1]``), or make it the root.
+
+    Counts values against ``max_nodes`` and refuses duplicate and non-scalar
+    keys; a streamed collection's entries go to its reader instead of into it.
+    ``keys`` and ``pending`` hold, per open mapping, the keys read and the key
+    waiting for its value. A closure over compose's lists, as fast as one
+    written inside it.
+    """
+    def attach(node: Node) -> None:
+        if not stack:
+            roots.append(node)
+            return
+        parent = stack[-1]
+        parent.size += node.size
+        if parent.size > limits.max_nodes:
+            raise YamlProblem(node.line, node.column, f"document expands to more than {limits.max_nodes} values (aliases included); limit max_nodes")
+        if isinstance(parent, SequenceNode):
+            if parent.streamed:
+                parent.streamed(None, node)
+            else:
+                parent.value.append(node)
+            return
+        key = pending[-1]
+        if key is None:
+            if not isinstance(node, ScalarNode):
+                raise YamlProblem(node.line, node.column, "a key must be a plain value, not a list or mapping")
+            resolved = scalar_value(node)
+            if isinstance(resolved, float) and math.isnan(resolved):
+                resolved = "nan"
+            hkey = resolved if isinstance(resolved, str) else (type(resolved).__name__, resolved)
+            seen = keys[-1]
+            if hkey in seen:
+                raise YamlProblem(node.line, node.column, f"duplicate key '{_short(node.value)}' (first at line {seen[hkey]})")
+            seen[hkey] = node.line  # the line only: a large mapping's key nodes need not stay alive
+            pending[-1] = node
+        else:
+            pending[-1] = None
+            if parent.streamed:
+                parent.streamed(key, node)
+            else:
+                parent.value.append((key, node))
+
+    return attach
+
+
+def _parser_problem(text: str, exc: Exception, limits: Limits) -> YamlProblem:
+    """The YamlProblem for an error the parser raised: where it is, in plain words for the common mistakes."""
+    if isinstance(exc, MarkedYAMLError):
         mark = exc.problem_mark or exc.context_mark
         line, col = (mark.line + 1, mark.column + 1) if mark is not None else (1, 1)
         what = (exc.problem or exc.context or "invalid YAML").strip()
@@ -286,16 +309,12 @@ def compose(text: str, limits: Limits, sections: dict[str, tuple[type, SectionRe
 
         cmark = exc.context_mark
         line, col, message = explain(text, what, line, col, exc.context, cmark and cmark.line + 1, cmark and cmark.column + 1)
-        raise YamlProblem(line, col, message) from None
-    except YAMLError as exc:
+        return YamlProblem(line, col, message)
+    if isinstance(exc, YAMLError):
         first = str(exc).splitlines()[0] if str(exc) else "invalid YAML"
         line, col = _reader_position(text, exc)
-        raise YamlProblem(line, col, f"YAML: {first}") from None
-    except RecursionError:
-        raise YamlProblem(1, 1, f"YAML nesting is too deep to read (limit {limits.max_depth} levels)") from None
-    if root is not None and isinstance(root, ScalarNode) and root.plain and root.value in _NULL:
-        return None
-    return root
+        return YamlProblem(line, col, f"YAML: {first}")
+    return YamlProblem(1, 1, f"YAML nesting is too deep to read (limit {limits.max_depth} levels)")  # RecursionError
 
 
 def _reader_position(text: str, exc: Exception) -> tuple[int, int]:

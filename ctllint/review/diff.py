@@ -1059,10 +1059,10 @@ class Revision:
             return self.text
         if self.real_path is None:
             return ""
-        from ctllint.reading.loader import _link_out_of_repository
+        from ctllint.reading.loader import link_out_of_repository
         from ctllint.reading.safeio import ReadProblem, read_bytes
 
-        if _link_out_of_repository(self.real_path) is not None:
+        if link_out_of_repository(self.real_path) is not None:
             return ""  # as loading it: a link out of the repository is never read
         try:
             data = read_bytes(self.real_path, limits)
