@@ -123,7 +123,7 @@ def _repo_rel(path: str, top: str) -> str | None:
 
 def _git_base(rev: str, targets) -> tuple[str, str]:
     """The repository's top folder and the commit ``rev`` names; a UsageError (exit 2) when either cannot be had."""
-    from ctllint.commands._git import git_cmd, resolve
+    from ctllint.commands._git import git_cmd, resolve_commit
 
     if shutil.which("git") is None:
         raise UsageError("ctllint: --changes-since needs the git program on PATH")
@@ -135,7 +135,7 @@ def _git_base(rev: str, targets) -> tuple[str, str]:
     if ".." in rev:
         raise UsageError(f"ctllint: --changes-since takes one revision, not a range ('{rev}'): the report compares it with the "
                          "working tree; for a branch's changes use --changes-since \"$(git merge-base main HEAD)\"")
-    sha = resolve(rev, cwd)  # a bad revision is a UsageError naming it
+    sha = resolve_commit(rev, cwd)  # a bad revision is a UsageError naming it
     outside = [t.shown for t in targets if _repo_rel(t.path, top) is None]
     if outside:
         raise UsageError(f"ctllint: --changes-since: {', '.join(outside[:3])}{' ...' if len(outside) > 3 else ''} "
@@ -186,7 +186,7 @@ def _changes_since(rev: str, base: tuple[str, str], targets, files, checker: Che
 
     from ctllint.review.diff import Revision, SchematicDiff, diff_revisions, semantic_diff
     from ctllint.output.htmlreport import Changes, FileChange
-    from ctllint.commands._git import RevisionTree, dependents, git_cmd, name_status
+    from ctllint.commands._git import RevisionTree, dependent_schematics, git_cmd, name_status
 
     top, sha = base
     listing = git_cmd(["diff", "--name-status", "-z", "-M", "--no-ext-diff", "--no-relative", sha, "--"], cwd=top)
@@ -197,7 +197,7 @@ def _changes_since(rev: str, base: tuple[str, str], targets, files, checker: Che
     gone = sorted((old, new) for old, new in pairs if old is not None and old != new and new not in in_report)
     tree = git_cmd(["ls-tree", "-r", "-z", "--name-only", "--full-tree", sha], cwd=top).stdout
     in_old = set(tree.decode("utf-8", "surrogateescape").split("\0"))
-    uses_changed = dict(dependents(pairs, sha, None, top, top, [], cfg.limits)) if pairs else {}
+    uses_changed = dict(dependent_schematics(pairs, sha, None, top, top, [], cfg.limits)) if pairs else {}
     label, now = rev, "working tree"
     out = Changes(rev, sha)
     with tempfile.TemporaryDirectory(prefix="ctllint-report-") as tmp:
