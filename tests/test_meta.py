@@ -6,7 +6,7 @@ import re
 import pytest
 
 from ctllint.checking import hookspecs
-from ctllint.commands.cli import rules_table
+from ctllint.commands.rules import rules_table
 from ctllint.checking.host import PluginHost
 from ctllint.testing import case_files, load_cases
 

@@ -115,7 +115,7 @@ def test_rungs_sharing_a_title_still_pair_by_what_they_hold():
 
 def test_simulate_of_a_long_scenario_grows_linearly():
     # The command replayed every prefix of the steps (2,000 steps: quadratic).
-    from ctllint.commands.view import simulate_rows
+    from ctllint.commands.simulate import simulate_rows
 
     def make(n):
         sch = load(long_scenario(n))
@@ -126,7 +126,7 @@ def test_simulate_of_a_long_scenario_grows_linearly():
 
 def test_simulate_rows_match_the_scenario_run_of_each_prefix():
     # The reference: each row as its own run of the steps so far (what the command used to do).
-    from ctllint.commands.view import simulate_rows
+    from ctllint.commands.simulate import simulate_rows
     from ctllint.reading.model import Scenario
 
     sch = load(long_scenario(23))

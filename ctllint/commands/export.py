@@ -4,7 +4,7 @@ from __future__ import annotations
 import argparse
 
 from ctllint.commands.cli import EXIT_OK, command, write_output
-from ctllint.commands.view import _one_file, _refuse_unloadable
+from ctllint.commands._shared import one_file, refuse_unloadable
 
 EXPORT_HELP = """\
 Write one of a schematic's panel documents as CSV (a header row, one row
@@ -53,8 +53,8 @@ def _configure(p: argparse.ArgumentParser) -> None:
 def _run(args: argparse.Namespace) -> int:
     from ctllint.output.export import export
 
-    loaded, _shown, _cfg, host = _one_file(args, args.path)
-    refused = _refuse_unloadable(loaded)
+    loaded, _shown, _cfg, host = one_file(args, args.path)
+    refused = refuse_unloadable(loaded)
     if refused is not None:
         return refused
     write_output(export(args.kind, loaded.schematic, host.kinds, args.strip), args.output)

@@ -91,7 +91,7 @@ WORK = {
              "old, new = load_file(sys.argv[1]).schematic, load_file(sys.argv[2]).schematic\n"
              "run = lambda: semantic_diff(old, new)\n"),
     "simulate": ("from ctllint.circuit.analysis import Circuit\n"
-                 "from ctllint.commands.view import simulate_rows\n"
+                 "from ctllint.commands.simulate import simulate_rows\n"
                  "sch = load_file(sys.argv[1]).schematic\n"
                  "run = lambda: simulate_rows(Circuit(sch).simulator(), list(sch.expect[0].steps))\n"),
 }

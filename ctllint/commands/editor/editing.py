@@ -270,7 +270,7 @@ def involved(sch: Schematic, diagnostics: list[Diagnostic], tag: str) -> list[Di
 
 def device_hover(sch: Schematic, diagnostics: list[Diagnostic], tag: str, coil_kinds: set[str], rule_summaries: dict[str, str], shown) -> str:
     """Markdown for a hover on a device tag: kind, fields, where it is used, the findings about it."""
-    from ctllint.commands.view import xref_rows  # the cross-reference of `ctllint xref`
+    from ctllint.commands.xref import xref_rows  # the cross-reference of `ctllint xref`
 
     dev = sch.devices[tag]
     lines = [f"**{tag}**: {dev.kind}"]

@@ -1,4 +1,4 @@
-"""``ctllint schema`` and ``ctllint init``: editor support and a starting point."""
+"""``ctllint init``: a starter configuration, pre-commit entry, example schematic and its schema (never overwrites)."""
 from __future__ import annotations
 
 import argparse
@@ -6,7 +6,7 @@ import json
 import os
 import sys
 
-from ctllint.commands.cli import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, setup, write_output
+from ctllint.commands.cli import EXIT_OK, UsageError, command
 
 STARTER_CONFIG = """\
 # ctllint configuration: see 'ctllint rules' and 'ctllint explain RULE'.
@@ -57,23 +57,6 @@ expect:
       - press: PB1
       - check: {M1: off}
 """
-
-
-def _configure_schema(p: argparse.ArgumentParser) -> None:
-    p.add_argument("-o", "--output", metavar="FILE", help="write the schema to FILE instead of standard output")
-    add_config_args(p)
-    add_plugins_arg(p)
-
-
-def _run_schema(args: argparse.Namespace) -> int:
-    from ctllint.output.schema import build_schema
-
-    _, host = setup(args)
-    write_output(json.dumps(build_schema(host.kinds), indent=2, sort_keys=False) + "\n", args.output)
-    return EXIT_OK
-
-
-command("schema", "print a JSON Schema (draft-07) of the file format for editors")((_configure_schema, _run_schema))
 
 
 def _configure_init(p: argparse.ArgumentParser) -> None:
