@@ -1,0 +1,108 @@
+"""A stop button stops only the paths it is on. Where the seal-in, a second start station or a
+parallel branch reaches the coil without passing the stop, pressing stop leaves the motor running.
+For every coil a stop button's contact serves, the rule asks whether the coil can be energized with
+all of that button's contacts taken out, and names such a path. Several stop stations belong in
+series; a stop wired in parallel with another is bypassed by it. A drive's or soft starter's run and
+stop inputs are coils here: they start and hold its motor.
+"""
+from __future__ import annotations
+
+from typing import Iterator
+
+from ctllint.api import CheckContext, Example, Finding, Rule, reflow
+from ctllint.reading.kinds import LOAD
+from ctllint.reading.model import Element, Severity
+from ctllint_plugins.motor_control._devices import STARTER_EXAMPLE, coil_loads, device_of, drive_command_inputs, is_stop_device
+from ctllint_plugins.motor_control._paths import path_walk
+
+
+def _wire_groups(ctx: CheckContext) -> dict[str, str]:
+    """Wires joined through non-load elements: wire -> representative (union-find)."""
+    parent: dict[str, str] = {}
+
+    def find(w: str) -> str:
+        parent.setdefault(w, w)
+        while parent[w] != w:
+            parent[w] = parent[parent[w]]
+            w = parent[w]
+        return w
+
+    for el in ctx.schematic.elements:
+        a, b = find(el.left), find(el.right)
+        if el.role and el.role != LOAD and a != b:
+            parent[a] = b
+    return {w: find(w) for w in list(parent)}
+
+
+def _side_text(path: list[Element], load: Element, near: Element, ctx: CheckContext, groups: dict[str, str]) -> str:
+    """The part of ``path`` on the same side of ``load`` as element ``near``.
+
+    Two sides of a coil are joined only through loads, so the wires of each
+    side fall in different groups of non-load wiring; the side whose group
+    holds ``near`` is the one that matters to the reader.
+    """
+    items = path_walk(path, load, ctx)
+    if load.text not in items:
+        return "-".join(items)
+    at = items.index(load.text)
+    hot_side, common_side = items[:at], items[at + 1:]
+    group = groups.get(near.left)
+    if group is not None and any(groups.get(w) == group for w in hot_side[0::2]):
+        return "-".join(hot_side)
+    if group is not None and any(groups.get(w) == group for w in common_side[0::2]):
+        return "-".join(common_side)
+    return "-".join(items)
+
+
+def _load_words(ctx: CheckContext, load: Element) -> str:
+    """``coil M1`` for a coil, ``drive input VFD1.run`` for a drive's or soft starter's command input."""
+    if load.part == "coil":
+        return f"coil {load.tag}"
+    return f"{device_of(ctx, load.tag).kind} input {load.text}"
+
+
+def check(ctx: CheckContext) -> Iterator[Finding]:
+    circuit = ctx.circuit
+    # A drive's run and stop inputs start and hold its motor as a coil does.
+    coil_by_index = {c.index: c for c in coil_loads(ctx) + drive_command_inputs(ctx, "run", "stop")}
+    groups: dict[str, str] | None = None
+    for tag, dev in ctx.schematic.devices.items():
+        if not is_stop_device(dev):
+            continue
+        stop_elements = circuit.elements_of(tag)
+        if not stop_elements:
+            continue
+        served: dict[int, Element] = {}  # coil index -> the first of the stop's contacts serving it
+        for el in stop_elements:
+            for load in circuit.served_loads(el):
+                served.setdefault(load.index, el)
+        for index in sorted(served):  # only the coils this stop serves, file order: linear overall
+            coil = coil_by_index.get(index)
+            if coil is None:
+                continue
+            stop = served[index]
+            path = circuit.energizing_path(coil, without=stop_elements)
+            if path is None:
+                continue
+            if groups is None:
+                groups = _wire_groups(ctx)
+            what = "emergency stop" if dev.get("function") == "emergency-stop" else "stop button"
+            yield Finding(
+                stop.loc,
+                f"{_load_words(ctx, coil)} can be energized without passing {what} {tag} "
+                f"(path {_side_text(path, coil, stop, ctx, groups)}): wire every path to the coil through "
+                f"{tag}, with the seal-in and other start contacts after it",
+                f"{stop.text}@{coil.text}",
+            )
+
+
+RULE = Rule(
+    name="stop-in-series",
+    severity=Severity.ERROR,
+    summary="a coil served by a stop button has a path that avoids every contact of it",
+    doc=reflow(__doc__),
+    source="common practice (stop buttons normally closed and in series); NFPA 79 9.2.5.3",
+    check=check,
+    failing=Example("seal-in wired around the stop", STARTER_EXAMPLE + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [L1, M1.NO, 3]\n"),
+    passing=Example("seal-in around the start only", STARTER_EXAMPLE + "rungs:\n  - paths:\n      - [L1, PB1.NC, 2, PB2.NO, 3, M1.coil, 4, OL1.NC, X2]\n      - [2, M1.NO, 3]\n"),
+)
