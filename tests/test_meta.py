@@ -36,16 +36,21 @@ def host():
     return h
 
 
-def test_catalogue_is_registered_exactly(host):
+def test_catalogue_is_registered(host):
+    # every rule of the catalogue, by its public name, in its plugin, at its severity (a renamed
+    # or re-graded rule fails); a rule added beyond it is checked by the tests below like any other
     for plugin, names in CATALOGUE.items():
-        got = sorted(n for n, r in host.rules.items() if r.plugin == plugin)
-        assert got == sorted(names), plugin
+        got = {n for n, r in host.rules.items() if r.plugin == plugin}
+        assert set(names) <= got, (plugin, sorted(set(names) - got))
     for plugin, names in CATALOGUE.items():
         for name in names:
             assert str(host.rules[name].severity) == SEVERITY.get(name, "error"), name
 
 
-@pytest.mark.parametrize("name", sorted(n for names in CATALOGUE.values() for n in names))
+BUILTIN_RULES = sorted(n for n, r in PluginHost.create().rules.items() if r.plugin in CATALOGUE)
+
+
+@pytest.mark.parametrize("name", BUILTIN_RULES)
 def test_rule_is_documented(host, name):
     rule = host.rules[name]
     assert rule.summary and len(rule.summary) < 120
@@ -58,7 +63,7 @@ def test_rule_is_documented(host, name):
         assert opt.validate(opt.default) is None
 
 
-@pytest.mark.parametrize("name", sorted(n for names in CATALOGUE.values() for n in names))
+@pytest.mark.parametrize("name", BUILTIN_RULES)
 def test_rule_has_cases(name):
     path = os.path.join(RULES_DIR, f"{name}.yaml")
     assert os.path.exists(path), f"no case file for {name}"
