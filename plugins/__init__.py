@@ -1,5 +1,8 @@
 """The built-in rule plugins of ctllint, installed as ``ctllint_plugins``.
 
-Each module is one plugin (a rule family) registered through the ``ctllint``
-entry-point group, exactly as a site's own plugin is.
+Each package is one plugin (a rule family: wiring, motor_control, ratings,
+behaviour) registered through the ``ctllint`` entry-point group, exactly as a
+site's own plugin is. Inside a plugin, one module per rule, named for it; a
+plugin's ``__init__`` lists its rule modules once (``rules_from``), and
+modules whose names start with ``_`` hold what several of its rules share.
 """
