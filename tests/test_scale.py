@@ -259,18 +259,20 @@ def _random_schematic(rnd) -> str:
 def test_row_search_equals_the_plain_search_on_random_rungs():
     import random
 
-    from ctllint.output import draw
+    from ctllint.output.draw import MIN_COLUMNS
+    from ctllint.output.draw.columns import finish_columns, plan_rung, rung_supply
+    from ctllint.output.draw.rows import rows_in_order
 
     rnd = random.Random(1414)
     compared = 0
     for _ in range(150):
         sch = load(_random_schematic(rnd))
         for rung in sch.rungs:
-            sup = draw._rung_supply(sch, rung, None)
-            lay, g, chains, right_side, asap = draw._plan_rung(sch, rung, sup)
-            draw._finish_columns(lay, g, chains, right_side, asap, max(draw.MIN_COLUMNS, max(asap.values(), default=0)))
+            sup = rung_supply(sch, rung, None)
+            lay, g, chains, right_side, asap = plan_rung(sch, rung, sup)
+            finish_columns(lay, g, chains, right_side, asap, max(MIN_COLUMNS, max(asap.values(), default=0)))
             rest = list(range(1, len(lay.paths)))
             for order in (rest, sorted(rest, key=lambda i: -i), rnd.sample(rest, len(rest))):
-                assert draw._rows_in_order(lay, [0] + order) == _rows_reference(lay, [0] + order)
+                assert rows_in_order(lay, [0] + order) == _rows_reference(lay, [0] + order)
                 compared += 1
     assert compared >= 450

@@ -28,7 +28,7 @@ from typing import Any
 from ctllint import __version__
 from ctllint.review.diff import ADDED, APPEARED, CHANGED, MOVED, REMOVED, ElementDiff, RungDiff, SchematicDiff, ValueChange, changed_rungs
 from ctllint.output.draw import CHANGE_COLOUR, CHANGE_TINT, SEVERITY_COLOUR, SEVERITY_TINT, Drawing, Mark, layout
-from ctllint.output.draw import _visible
+from ctllint.output.draw import visible as _visible
 from ctllint.reading.model import Diagnostic, Schematic, Severity
 
 
