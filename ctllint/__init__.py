@@ -24,7 +24,12 @@ try:
 except PackageNotFoundError:  # running from a source tree that is not installed
     __version__ = "0.0.0+source"
 
-from ctllint.checking.hookspecs import hookimpl  # noqa: E402
+import pluggy  # noqa: E402
+
+# The marker of hook implementations (``@ctllint.hookimpl``), for the project
+# name the host's hook specifications use (``ctllint.checking.hookspecs``).
+# Made here, not imported from there, so that the package's face imports no stage.
+hookimpl = pluggy.HookimplMarker("ctllint")
 
 __all__ = ["__version__", "hookimpl"]
 

@@ -75,3 +75,10 @@ def test_old_module_names_still_import_with_a_deprecation_warning():
     assert categories == ["DeprecationWarning"] * 3
     assert "ctllint.model is now ctllint.reading.model" in messages[0]
     assert "ctllint.circuit.analysis.path_text" in messages[1]
+
+
+def test_the_hook_marker_of_the_face_is_the_hosts():
+    import ctllint
+    from ctllint.checking import hookspecs
+
+    assert hookspecs.PROJECT == "ctllint" and ctllint.hookimpl.project_name == hookspecs.PROJECT

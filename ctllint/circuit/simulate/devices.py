@@ -11,7 +11,7 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:  # pragma: no cover
-    from ctllint.circuit.analysis import Circuit
+    from ctllint.circuit.graph import CircuitGraph
 
 _SWITCH_KINDS = {
     "pushbutton",
@@ -55,7 +55,7 @@ class Timer:
 class DeviceTables:
     """The devices of a circuit as the simulator sorts them (FORMAT.md "Behaviour model")."""
 
-    def __init__(self, circuit: "Circuit"):
+    def __init__(self, circuit: "CircuitGraph"):
         self.circuit = circuit
         sch = circuit.schematic
         self._supplies = [s for s in sch.supplies.values() if s.hot != s.common]

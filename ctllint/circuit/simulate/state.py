@@ -16,13 +16,13 @@ from ctllint.reading.kinds import INSTANT_PARTS, contact_sense
 from ctllint.reading.model import Element
 
 if TYPE_CHECKING:  # pragma: no cover
-    from ctllint.circuit.analysis import Circuit
+    from ctllint.circuit.graph import CircuitGraph
 
 
 class NetworkState(DeviceTables):
     """The state of every device of a circuit, at rest to begin with."""
 
-    def __init__(self, circuit: "Circuit"):
+    def __init__(self, circuit: "CircuitGraph"):
         super().__init__(circuit)
         self.power_on = True
         self.actuated: dict[str, bool] = {}
