@@ -3,7 +3,7 @@
 Every expected number below is transcribed from the project's check values
 (/work/shared/CHECK-VALUES.md) or the published source named beside it, not
 taken from the code's output. The tables are copied here independently of
-ctllint/tables.py, so a typo in either one fails a test.
+ctllint/circuit/tables.py, so a typo in either one fails a test.
 """
 from __future__ import annotations
 
