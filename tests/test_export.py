@@ -219,3 +219,87 @@ def test_html_report_has_the_wire_sheet(tmp_path):
     assert 'id="f1-wires"' in page
     assert "<td>3</td><td>M1:14</td><td>TB1:4</td><td>panel</td>" in page
     assert page.count('<tr class="w-') == SMALL_WIRES.count("\n") - 1
+
+
+# Written by hand from the drawing, as above: a field device with two
+# terminals on one wire gets a strip point for each conductor (bridged), and a
+# supply's rail reaches a field device through the strip even where the file
+# draws nothing of the panel on that rail (the rail comes from the panel's
+# transformer or fuse; the plan says which supply).
+PENDANT = textwrap.dedent("""\
+    ctllint: 1
+    title: Pendant station with a contact on each side of one wire
+    supplies:
+      ctl: {hot: L1, common: X2, voltage: 120 VAC}
+    devices:
+      CR9: {kind: relay, coil: 120 VAC}
+      PB1: {kind: pushbutton, function: start}
+      CR1: {kind: relay, coil: 120 VAC}
+      CR2: {kind: relay, coil: 120 VAC}
+    rungs:
+      - paths:
+          - [L1, CR9.NO, 4, PB1.NC, 5, CR1.coil, X2]
+          - [4, PB1.NO, 6, CR2.coil, X2]
+      - paths:
+          - [L1, CR1.NO, 7, CR9.coil, X2]
+""")
+PENDANT_TERMINALS = """\
+strip,point,wire,field device,field terminal,kind,from
+TB1,1,4,PB1,11,pushbutton,CR9:14
+TB1,2,4,PB1,23,pushbutton,TB1:1
+TB1,3,5,PB1,12,pushbutton,CR1:A1
+TB1,4,6,PB1,24,pushbutton,CR2:A1
+"""
+SELECTOR_ON_THE_RAIL = textwrap.dedent("""\
+    ctllint: 1
+    title: Sump pump selector in the field, straight off the rail
+    supplies:
+      ctl: {hot: L1, common: X2, voltage: 120 VAC}
+    devices:
+      SS1: {kind: selector, positions: [off, hand, auto], location: field}
+      CR1: {kind: relay, coil: 120 VAC}
+      CR2: {kind: relay, coil: 120 VAC}
+    rungs:
+      - title: Hand
+        paths:
+          - [L1, SS1.hand, 3, CR1.coil, X2]
+      - title: Auto
+        paths:
+          - [L1, SS1.auto, 4, CR2.coil, X2]
+""")
+SELECTOR_WIRES = """\
+wire,from,to,where
+L1,TB1:1,TB1:2,bridge
+L1,TB1:1,SS1:13,field
+L1,TB1:2,SS1:23,field
+3,CR1:A1,TB1:3,panel
+3,TB1:3,SS1:14,field
+4,CR2:A1,TB1:4,panel
+4,TB1:4,SS1:24,field
+X2,CR1:A2,CR2:A2,panel
+"""
+SELECTOR_TERMINALS = """\
+strip,point,wire,field device,field terminal,kind,from
+TB1,1,L1,SS1,13,selector,supply ctl
+TB1,2,L1,SS1,23,selector,TB1:1
+TB1,3,3,SS1,14,selector,CR1:A1
+TB1,4,4,SS1,24,selector,CR2:A1
+"""
+
+
+def _doc(text: str, what: str) -> str:
+    res = load_text(text, "memory.ctl.yaml")
+    assert not res.diagnostics, res.diagnostics
+    return export(what, res.schematic).replace("\r\n", "\n")
+
+
+def test_two_terminals_of_a_field_device_on_one_wire_get_a_point_each():
+    plan = _doc(PENDANT, "terminals")
+    assert plan == PENDANT_TERMINALS
+    points = [row.split(",")[1] for row in plan.splitlines()[1:]]
+    assert len(points) == len(set(points)), "a strip point listed twice"
+
+
+def test_a_field_device_on_a_supply_rail_lands_on_the_strip():
+    assert _doc(SELECTOR_ON_THE_RAIL, "wires") == SELECTOR_WIRES
+    assert _doc(SELECTOR_ON_THE_RAIL, "terminals") == SELECTOR_TERMINALS

@@ -9,9 +9,12 @@ the panel: pushbutton stations, limit and process switches, valves,
 motors, a motor's space heater). A device says so with ``location: panel | field``; without it,
 ``FIELD_KINDS`` decides. Every wire that reaches a field device passes a
 terminal strip (``TB1`` unless told otherwise): one strip point per field
-device and wire, so that each field conductor has its own point; points of
-the same wire are bridged on the strip. A wire whose terminals are all on
-one field device stays in the field.
+conductor (a field device's terminal on a wire, so two terminals of one
+device on one wire get two points); points of the same wire are bridged on
+the strip. A wire whose terminals are all on one field device stays in the
+field (jumpered there), unless it is a supply's rail: a rail comes from the
+panel (its transformer, fuse or power supply) even where the file draws
+nothing of the panel on it.
 
 Wire list (``wires``). One row per conductor a wirer installs: wire number,
 from ``device:terminal``, to ``device:terminal``, and where it runs
@@ -34,7 +37,8 @@ then by that description.
 
 Terminal plan (``terminals``). One row per strip point: strip, point,
 wire, the field device and its terminal, the panel terminal the wire comes
-from (or the point it is bridged from), and the device's kind. Points are
+from (or the point it is bridged from, or ``supply NAME`` for a rail with no
+panel terminal drawn), and the device's kind. Points are
 numbered along the strip from 1, grouped by field device in the order the
 drawing first shows each device (each cable's conductors side by side),
 and by wire within a device.
@@ -99,7 +103,7 @@ class StripPoint:
     wire: str
     field: End
     kind: str
-    source: str  # the panel terminal or strip point the wire arrives from ("" when none)
+    source: str  # the panel terminal or strip point the wire arrives from, "supply NAME" for a rail with no panel terminal
 
 
 @dataclass
@@ -146,22 +150,27 @@ def documents(sch: Schematic, kinds: KindRegistry | None = None, strip: str = DE
     def field(end: End) -> bool:
         return end.device in in_field
 
-    # Strip points: per field device (in order of its first use), per wire.
-    wanted: dict[tuple[str, str], int] = {}  # (device, wire) -> the device's first use
+    # A supply's rails come from the panel (its transformer, fuse or power
+    # supply) even where the file draws nothing of the panel on them.
+    rails = {s.hot: name for name, s in sch.supplies.items()} | {s.common: name for name, s in sch.supplies.items()}
+
+    # Strip points: one per field conductor (a field device's terminal on a
+    # wire), grouped by field device in the order of its first use.
+    wanted: dict[tuple[str, str, int], int] = {}  # (device, wire, its end's place on the wire) -> the device's first use
     for wire in order:
         wire_ends = ends[wire]
         field_devices = {e.device for e, _ in wire_ends if field(e)}
-        if not field_devices or (len(field_devices) == 1 and all(field(e) for e, _ in wire_ends)):
-            continue  # all in the panel, or all on one field device: no strip
-        for e, first in wire_ends:
+        if not field_devices or (wire not in rails and len(field_devices) == 1 and all(field(e) for e, _ in wire_ends)):
+            continue  # all in the panel, or all on one field device (jumpered there): no strip
+        for k, (e, first) in enumerate(wire_ends):
             if field(e):
-                wanted.setdefault((e.device, wire), first)
+                wanted[(e.device, wire, k)] = first
     rank = {w: k for k, w in enumerate(order)}
-    point_of: dict[tuple[str, str], int] = {}
+    point_of: dict[tuple[str, str, int], int] = {}
     points_of_wire: dict[str, list[int]] = {}
-    for n, (device, wire) in enumerate(sorted(wanted, key=lambda dw: (wanted[dw], dw[0], rank[dw[1]])), start=1):
-        point_of[(device, wire)] = n
-        points_of_wire.setdefault(wire, []).append(n)  # ascending: n grows
+    for n, key in enumerate(sorted(wanted, key=lambda dwk: (wanted[dwk], dwk[0], rank[dwk[1]], dwk[2])), start=1):
+        point_of[key] = n
+        points_of_wire.setdefault(key[1], []).append(n)  # ascending: n grows
 
     conductors: list[Conductor] = []
     points: list[StripPoint] = []
@@ -180,12 +189,12 @@ def documents(sch: Schematic, kinds: KindRegistry | None = None, strip: str = DE
             conductors.append(Conductor(wire, panel[-1], first_point, "panel"))
         for a, b in zip(on_strip, on_strip[1:]):
             conductors.append(Conductor(wire, End(strip, str(a)), End(strip, str(b)), "bridge"))
-        sources = {on_strip[0]: str(panel[-1]) if panel else ""}
+        sources = {on_strip[0]: str(panel[-1]) if panel else (f"supply {rails[wire]}" if wire in rails else "")}
         for a, b in zip(on_strip, on_strip[1:]):
             sources[b] = f"{strip}:{a}"
-        for e in wire_ends:
+        for k, e in enumerate(wire_ends):
             if field(e):
-                p = point_of[(e.device, wire)]
+                p = point_of[(e.device, wire, k)]
                 conductors.append(Conductor(wire, End(strip, str(p)), e, "field"))
                 points.append(StripPoint(strip, p, wire, e, devices[e.device].kind, sources[p]))
     points.sort(key=lambda sp: (sp.point, str(sp.field)))
