@@ -229,7 +229,8 @@ BUILTIN_KINDS: tuple[DeviceKind, ...] = (
     DeviceKind("plc-input", {"voltage": FieldSpec(VOLTAGE), "current": FieldSpec(CURRENT)}, bare="load"),
     DeviceKind("fuse", {"rating": FieldSpec(CURRENT), "side": FieldSpec(TEXT, choices=("primary", "secondary"))}, bare="conductor"),
     DeviceKind("breaker", {"rating": FieldSpec(CURRENT), "side": FieldSpec(TEXT, choices=("primary", "secondary")),
-                           "contacts": FieldSpec(CONTACTS, doc="auxiliary contacts (NO/NC, open when tripped)")},
+                           "contacts": FieldSpec(CONTACTS, doc="auxiliary contacts (NO/NC, open when tripped)"),
+                           "contact_rating": FieldSpec(RATING, doc="rating of its auxiliary contacts")},
                bare="conductor", parts=("NO", "NC")),
     DeviceKind(
         "transformer",

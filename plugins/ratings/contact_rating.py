@@ -53,8 +53,8 @@ def _served_figures(ctx, element: Element) -> list[tuple[Supply, list[LoadFigure
 
 
 def _check_contact(ctx, element: Element, device: Device, what: str = "contact") -> Iterator[Finding]:
-    # A motor-protective breaker's ``rating`` is its frame current; its contacts have ``contact_rating``.
-    field = "contact_rating" if device.kind == "motor-breaker" else "rating"
+    # A breaker's ``rating`` is its frame current; its auxiliary contacts have ``contact_rating``.
+    field = "contact_rating" if device.kind in ("motor-breaker", "breaker") else "rating"
     rating = device.get(field)
     if not isinstance(rating, ContactRating):
         return
@@ -73,7 +73,8 @@ def _check_contact(ctx, element: Element, device: Device, what: str = "contact")
             if why_not:
                 yield Finding(
                     at=element.loc,
-                    message=f"{duty_text()}; {device.tag}'s {why_not}: use {_article_of(what)} {what} rated for this supply",
+                    message=f"{duty_text()}; {device.tag}'s {'contact ' if field == 'contact_rating' else ''}{why_not}: "
+                            f"use {_article_of(what)} {what} rated for this supply",
                     subject=element_subject(ctx, element),
                 )
             continue
