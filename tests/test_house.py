@@ -82,3 +82,20 @@ def test_the_hook_marker_of_the_face_is_the_hosts():
     from ctllint.checking import hookspecs
 
     assert hookspecs.PROJECT == "ctllint" and ctllint.hookimpl.project_name == hookspecs.PROJECT
+
+
+def test_no_module_imports_itself_round_a_circle():
+    # import-linter's acyclic_siblings contract compares siblings; a package and its own modules
+    # (a package's __init__ importing a module that imports the package back) are not siblings,
+    # so every module's imports are also checked here for a circle of any length
+    import grimp
+    import networkx as nx
+
+    graph = grimp.build_graph("ctllint", "ctllint_plugins", exclude_type_checking_imports=True, cache_dir=None)
+    imports = nx.DiGraph()
+    for module in graph.modules:
+        imports.add_node(module)
+        imports.add_edges_from((module, other) for other in graph.find_modules_directly_imported_by(module) if other in graph.modules)
+    assert imports.number_of_nodes() > 100
+    circles = [sorted(c) for c in nx.strongly_connected_components(imports) if len(c) > 1]
+    assert not circles, circles

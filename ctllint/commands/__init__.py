@@ -8,7 +8,7 @@ One module per command (``check``, ``rules``, ``explain``, ``schema``, ``init``,
 ``_shared`` what the commands that show one schematic file share, and ``_git``
 what ``diff --git`` and ``report --changes-since`` share about reading git.
 
-A module registers itself with ``ctllint.commands.cli.command(name, help)`` applied
+A module registers itself with ``ctllint.commands.base.command(name, help)`` applied
 to a ``(configure, run)`` pair. ``check``, ``rules`` and ``explain`` (small, and
 what most runs are) are imported with this package, so they are registered first
 and lead the list in ``ctllint --help``. ``LAZY`` maps each other command to its

@@ -10,7 +10,7 @@ import os
 import shutil
 import subprocess
 
-from ctllint.commands.cli import UsageError
+from ctllint.commands.base import UsageError
 from ctllint.reading.loader import SCHEMATIC_SUFFIXES
 from ctllint.reading.safeio import ReadProblem, git_blob, read_bytes
 from ctllint.reading.yamlsafe import Limits, MappingNode, ScalarNode, SequenceNode, YamlProblem, compose

@@ -11,7 +11,7 @@ import argparse
 import os
 import sys
 
-from ctllint.commands.cli import EXIT_FINDINGS, UsageError, printable_diagnostic, setup
+from ctllint.commands.base import EXIT_FINDINGS, UsageError, printable_diagnostic, setup
 from ctllint.checking.discover import display_path
 from ctllint.reading.loader import LoadResult, load_file
 from ctllint.output.report import render_text

@@ -9,7 +9,7 @@ import argparse
 import sys
 import textwrap
 
-from ctllint.commands.cli import (EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_quiet_arg, command, exit_note, printable,
+from ctllint.commands.base import (EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_quiet_arg, command, exit_note, printable,
                                   printable_diagnostic, settings_for, setup, split_names, write_output)
 from ctllint.reading.model import Severity
 from ctllint.output.report import SAFETY_NOTE, render_text, render_with_note, summary_line, use_colour

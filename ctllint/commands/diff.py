@@ -49,7 +49,7 @@ import sys
 import tempfile
 
 from ctllint.commands._git import RevisionTree, dependent_schematics, git_cmd, name_status, resolve_commit
-from ctllint.commands.cli import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, settings_for, setup, write_output
+from ctllint.commands.base import EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, settings_for, setup, write_output
 from ctllint.review.diff import Revision, SchematicDiff, diff_revisions, render_json, render_text
 from ctllint.checking.engine import Checker
 from ctllint.reading.loader import SCHEMATIC_SUFFIXES

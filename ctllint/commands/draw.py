@@ -5,7 +5,7 @@ import argparse
 
 from ctllint.reading.budget import work
 from ctllint.commands._shared import add_rule_args, one_file, refuse_unloadable
-from ctllint.commands.cli import EXIT_OK, add_config_args, add_plugins_arg, command, settings_for, split_names, write_output
+from ctllint.commands.base import EXIT_OK, add_config_args, add_plugins_arg, command, settings_for, split_names, write_output
 from ctllint.checking.engine import Checker
 from ctllint.reading.loader import LoadResult
 from ctllint.reading.model import Diagnostic

@@ -9,7 +9,7 @@ import sys
 import textwrap
 from typing import Any
 
-from ctllint.commands.cli import EXIT_OK, UsageError, add_config_args, command, setup
+from ctllint.commands.base import EXIT_OK, UsageError, add_config_args, command, setup
 
 
 def _configure_explain(p: argparse.ArgumentParser) -> None:

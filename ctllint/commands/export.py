@@ -3,7 +3,7 @@ from __future__ import annotations
 
 import argparse
 
-from ctllint.commands.cli import EXIT_OK, command, write_output
+from ctllint.commands.base import EXIT_OK, command, write_output
 from ctllint.commands._shared import one_file, refuse_unloadable
 
 EXPORT_HELP = """\
@@ -45,7 +45,7 @@ def _configure(p: argparse.ArgumentParser) -> None:
     p.add_argument("path", metavar="FILE", help="a schematic file (*.ctl.yaml)")
     p.add_argument("-o", "--output", metavar="OUT", help="write to OUT (atomically) instead of standard output")
     p.add_argument("--strip", default=DEFAULT_STRIP, metavar="NAME", help=f"name of the terminal strip field wires pass (default {DEFAULT_STRIP})")
-    from ctllint.commands.cli import add_config_args
+    from ctllint.commands.base import add_config_args
 
     add_config_args(p)
 

@@ -6,7 +6,7 @@ import json
 import os
 import sys
 
-from ctllint.commands.cli import EXIT_OK, UsageError, command
+from ctllint.commands.base import EXIT_OK, UsageError, command
 
 STARTER_CONFIG = """\
 # ctllint configuration: see 'ctllint rules' and 'ctllint explain RULE'.

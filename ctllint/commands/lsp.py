@@ -3,7 +3,7 @@ from __future__ import annotations
 
 import argparse
 
-from ctllint.commands.cli import UsageError, command
+from ctllint.commands.base import UsageError, command
 
 LSP_HELP = """\
 Run ctllint as a language server: the Language Server Protocol over

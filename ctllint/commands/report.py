@@ -13,7 +13,7 @@ import sys
 
 from ctllint.reading.budget import work
 from ctllint.commands._shared import add_rule_args
-from ctllint.commands.cli import (EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_plugins_arg, add_quiet_arg, command, exit_note,
+from ctllint.commands.base import (EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_plugins_arg, add_quiet_arg, command, exit_note,
                                   settings_for, setup, split_names, write_output)
 from ctllint.checking.discover import discover, display_path
 from ctllint.checking.engine import Checker

@@ -7,7 +7,7 @@ from __future__ import annotations
 import argparse
 import sys
 
-from ctllint.commands.cli import EXIT_OK, add_config_args, command, setup
+from ctllint.commands.base import EXIT_OK, add_config_args, command, setup
 from ctllint.checking.host import PluginHost
 
 

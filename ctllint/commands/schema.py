@@ -4,7 +4,7 @@ from __future__ import annotations
 import argparse
 import json
 
-from ctllint.commands.cli import EXIT_OK, add_config_args, add_plugins_arg, command, setup, write_output
+from ctllint.commands.base import EXIT_OK, add_config_args, add_plugins_arg, command, setup, write_output
 
 
 def _configure_schema(p: argparse.ArgumentParser) -> None:

@@ -11,7 +11,7 @@ import sys
 
 from ctllint.reading.budget import work
 from ctllint.commands._shared import one_file, refuse_unloadable
-from ctllint.commands.cli import EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, printable
+from ctllint.commands.base import EXIT_FINDINGS, EXIT_OK, UsageError, add_config_args, add_plugins_arg, command, printable
 from ctllint.reading.loader import LoadResult
 from ctllint.reading.model import Location, Scenario, Schematic, Step
 

@@ -8,7 +8,7 @@ import argparse
 import sys
 
 from ctllint.commands._shared import one_file, refuse_unloadable
-from ctllint.commands.cli import EXIT_OK, add_config_args, add_plugins_arg, command, printable
+from ctllint.commands.base import EXIT_OK, add_config_args, add_plugins_arg, command, printable
 from ctllint.reading.model import Schematic
 
 

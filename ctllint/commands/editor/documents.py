@@ -110,7 +110,7 @@ class Configurations:
                 raise ConfigError(self.config_path, 1, "configuration file does not exist")
             cfg = load_config(cfg_path)
             host = PluginHost.create(local_plugins=cfg.plugins)
-            from ctllint.commands.cli import UsageError, settings_for
+            from ctllint.commands.base import UsageError, settings_for
 
             try:
                 settings = settings_for(cfg, host, None, [])
