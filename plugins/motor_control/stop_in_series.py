@@ -10,6 +10,7 @@ from __future__ import annotations
 from typing import Iterator
 
 from ctllint.api import CheckContext, Example, Finding, Rule, reflow
+from ctllint.circuit.wiresets import WireSets
 from ctllint.reading.kinds import LOAD
 from ctllint.reading.model import Element, Severity
 from ctllint_plugins.motor_control._devices import STARTER_EXAMPLE, coil_loads, device_of, drive_command_inputs, is_stop_device
@@ -17,21 +18,10 @@ from ctllint_plugins.motor_control._paths import path_walk
 
 
 def _wire_groups(ctx: CheckContext) -> dict[str, str]:
-    """Wires joined through non-load elements: wire -> representative (union-find)."""
-    parent: dict[str, str] = {}
-
-    def find(w: str) -> str:
-        parent.setdefault(w, w)
-        while parent[w] != w:
-            parent[w] = parent[parent[w]]
-            w = parent[w]
-        return w
-
-    for el in ctx.schematic.elements:
-        a, b = find(el.left), find(el.right)
-        if el.role and el.role != LOAD and a != b:
-            parent[a] = b
-    return {w: find(w) for w in list(parent)}
+    """Wires joined through non-load elements: wire -> representative of its group."""
+    elements = ctx.schematic.elements
+    groups = WireSets((el.left, el.right) for el in elements if el.role and el.role != LOAD)
+    return {w: groups.find(w) for el in elements for w in (el.left, el.right)}
 
 
 def _side_text(path: list[Element], load: Element, near: Element, ctx: CheckContext, groups: dict[str, str]) -> str:
