@@ -87,6 +87,7 @@ class Settling(CoilResponses):
         else:
             result.settled = False
             result.oscillating = list(self._coil_tags)
+        self._drives_see()
         result.shorts = self._shorts()
         if result.shorts:
             result.settled = False

@@ -19,6 +19,13 @@ from ctllint.circuit.simulate.timing import Timing
 class Simulator(ScenarioRunner, Timing):
     """The state of a circuit and the actions of FORMAT.md "Behaviour checks"."""
 
+    def __init__(self, circuit):
+        super().__init__(circuit)
+        if self._three_wire:
+            # The rest state as its three-wire drives see it before any action: without it the
+            # first action would count as power-up, and a start pressed then would be no start.
+            self._settle()
+
     # -- queries --------------------------------------------------------------
     def energized(self, tag: str) -> bool:
         """Whether load ``tag`` (a device's coil, or a bare load) is energized."""
