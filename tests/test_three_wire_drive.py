@@ -204,3 +204,16 @@ def test_the_json_schema_knows_control():
     for control, ok in (("three-wire", True), ("two-wire", True), ("3-wire", False)):
         data = YAML(typ="safe").load(CIRCUIT.replace("CONTROL", control))
         assert validator.is_valid(data) is ok, control
+
+
+def test_states_show_whether_a_drive_runs_not_whether_an_input_is_energized():
+    # What `ctllint simulate` prints: at rest and after power returns the stop input is energized,
+    # yet the drive is stopped; the row must say so, as `check: {VFD1: off}` does.
+    sim = simulator("three-wire")
+    assert sim.energized("VFD1") and sim.states()["VFD1"] is False
+    sim.press("PB2")
+    sim.release("PB2")
+    assert sim.states()["VFD1"] is True
+    sim.power(False)
+    sim.power(True)
+    assert sim.energized("VFD1") and sim.states()["VFD1"] is False

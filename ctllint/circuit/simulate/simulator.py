@@ -32,8 +32,9 @@ class Simulator(ScenarioRunner, Timing):
         return self._energized.get(tag, False)
 
     def states(self) -> dict[str, bool]:
-        """Every load tag, file order, and whether it is energized."""
-        held = {**self.latched, **self.started}
+        """Every load tag, file order, and whether it is energized; for a latching relay whether it is set,
+        for a safety relay whether its outputs are on, for a drive whether it runs (what ``check`` reads)."""
+        held = {**self.latched, **self.started, **self.running}
         return {t: held[t] if t in held else self._energized.get(t, False) for t in self._load_tags}
 
     def state_of(self, tag: str) -> bool:
