@@ -217,3 +217,23 @@ def test_states_show_whether_a_drive_runs_not_whether_an_input_is_energized():
     sim.power(False)
     sim.power(True)
     assert sim.energized("VFD1") and sim.states()["VFD1"] is False
+
+
+def test_the_missing_stop_input_of_a_drive_from_a_device_file_is_reported_where_its_run_input_is_drawn(tmp_path):
+    from ctllint.reading.loader import load_file
+
+    (tmp_path / ".git").mkdir()
+    (tmp_path / "lib").mkdir()
+    (tmp_path / "lib" / "drives.ctl.yaml").write_text("ctllint: 1\ndevices:\n  VFD1: {kind: drive, control: three-wire}\n")
+    # the device file alone is valid: it draws nothing
+    assert load_file(str(tmp_path / "lib" / "drives.ctl.yaml")).diagnostics == []
+    main = tmp_path / "fan.ctl.yaml"
+    main.write_text("ctllint: 1\nuse: [lib/drives.ctl.yaml]\n" + HEAD.replace("ctllint: 1\n", "") + """devices:
+  PB2: {kind: pushbutton, function: start}
+rungs:
+  - paths:
+      - [L1, PB2.NO, 2, VFD1.run, X2]
+""")
+    diags = load_file(str(main)).diagnostics
+    assert [(d.path, d.line, d.column) for d in diags] == [(str(main), 9, 25)]
+    assert "VFD1.stop is drawn in no rung" in diags[0].message
