@@ -29,7 +29,7 @@ class CoilResponses(NetworkState):
             if self.moved[tag] != on:
                 self.moved[tag] = on
                 changed = True
-        three = self._three_wire
+        three = self._latching_drives
         for tag in self._drive_tags:  # runs: run input on, stop input on where drawn, not tripped
             on = self._latch_coils
             run_in = (tag, "run") in on

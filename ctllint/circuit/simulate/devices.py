@@ -84,6 +84,7 @@ class DeviceTables:
         self._drive_stop = {el.tag for el in self._loads if el.tag in self._drive_tags and el.part == "stop"}
         # Drives set to three-wire control latch a start pulse themselves (``coils``).
         self._three_wire = [t for t in self._drive_tags if three_wire(sch.devices.get(t))]
+        self._latching_drives = frozenset(self._three_wire)
         for tag, dev in sch.devices.items():
             kind = dev.kind
             if kind == "selector":
