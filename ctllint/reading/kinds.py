@@ -340,6 +340,12 @@ _DRIVE_FIELDS = {
     "coil": FieldSpec(VOLTAGE, doc="rated voltage of its command inputs"),
     "current": FieldSpec(CURRENT, doc="current drawn by one command input (a few mA)"),
     "feeds": FieldSpec(TAG, tag_kinds=("motor",), doc="the motor it runs and protects"),
+    # How it takes its run command, a setting of the drive (common practice: drives offer both). two-wire:
+    # it runs while its run input is energized. three-wire: it starts on the rising of its run input while
+    # its stop input is energized and latches the command itself until the stop input drops, it trips or
+    # control power is lost; its stop input must be drawn (a format error otherwise: nothing could stop it).
+    "control": FieldSpec(TEXT, choices=("two-wire", "three-wire"), default="two-wire",
+                         doc="two-wire (runs while run is energized) or three-wire (latches a start pulse until stop drops)"),
     # As a contactor's: a drive may run a motor that must stay on through an emergency stop (freeze protection).
     "estop_exempt": _CONTACTOR_FIELDS["estop_exempt"],
     **_CONTACT_FIELDS,
@@ -385,6 +391,14 @@ BUILTIN_KINDS += (
         doc="breaker with an overload setting: bare TAG a conductor; NO/NC auxiliary, trip-NO/trip-NC trip-alarm contacts",
     ),
 )
+
+
+DRIVE_KINDS = ("drive", "soft-starter")
+
+
+def three_wire(device) -> bool:
+    """``device`` is a drive or soft starter set to three-wire control (it latches a start pulse itself)."""
+    return device is not None and device.kind in DRIVE_KINDS and device.get("control") == "three-wire"
 
 
 def coil_parts(kind: DeviceKind | None) -> tuple[str, ...]:

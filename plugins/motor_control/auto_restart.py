@@ -3,7 +3,10 @@ a float or pressure switch straight to the coil) restarts the motor when power r
 finds, as a least fixpoint from every coil off, which coils can come on with no button pressed:
 through momentary buttons' NC contacts, maintained and process switches, NC contacts of any coil, NO
 contacts of coils that can come on, fuses and overload NC contacts. PLC outputs count as open. Where
-restarting is intended (a sump pump on its float), set restart: automatic on the rung.
+restarting is intended (a sump pump on its float), set restart: automatic on the rung. A drive or
+soft starter set to control: three-wire never restarts by itself (its latch is lost with power and
+it starts only on a new rising of its run input), so it is not reported and its run relay is open
+at power return; a two-wire one is reported as a starter is.
 """
 from __future__ import annotations
 
@@ -11,7 +14,7 @@ from typing import Iterator
 
 from ctllint.api import CheckContext, Example, Finding, Rule, reflow
 import ctllint.reading.kinds as K
-from ctllint.reading.kinds import LOAD
+from ctllint.reading.kinds import LOAD, three_wire
 from ctllint.reading.model import Element, Severity
 from ctllint_plugins.motor_control._devices import (
     COIL_KINDS, CONTACTOR_KINDS, DRIVE_KINDS, coil_loads, device_of, is_mechanical, safety_loads,
@@ -32,6 +35,8 @@ def _closable_at_power_return(ctx: CheckContext, el: Element) -> bool | None:
         return None if el.part == "NO" else True  # its outputs come on when its feedback loop can (the fixpoint)
     if dev.kind in COIL_KINDS:
         return True if el.part == "NC" else None
+    if three_wire(dev):  # it does not run at power return: its latch is lost
+        return {"NC": True, "fault-NC": True}.get(el.part or "", False)
     if dev.kind in DRIVE_KINDS:  # its run relay follows its run input (the fixpoint); no fault at power return
         return {"NO": None, "NC": True, "fault-NO": False, "fault-NC": True}.get(el.part or "", False)
     if dev.kind == "motor-breaker":  # closed, not tripped, at power return
@@ -61,7 +66,9 @@ def check(ctx: CheckContext) -> Iterator[Finding]:
         elif not closable:
             blocked.append(el)
     # A drive or soft starter runs its motor while its run input is energized: a motor starter too.
-    drives = [load for load in ctx.circuit.loads if load.part == "run" and getattr(device_of(ctx, load.tag), "kind", None) in DRIVE_KINDS]
+    # A three-wire drive never restarts by itself: not one of them.
+    drives = [load for load in ctx.circuit.loads if load.part == "run" and getattr(device_of(ctx, load.tag), "kind", None) in DRIVE_KINDS
+              and not three_wire(device_of(ctx, load.tag))]
     coils = coil_loads(ctx) + drives
     # A safety relay restarts by itself when its feedback loop closes with no reset button pressed.
     starters = coils + safety_loads(ctx, "feedback")
@@ -94,7 +101,8 @@ def check(ctx: CheckContext) -> Iterator[Finding]:
             coil.loc,
             f"{dev.kind} {coil.text if dev.kind in DRIVE_KINDS else coil.tag} (motor {fed}) can "
             f"{'run' if dev.kind in DRIVE_KINDS else 'energize'} when power returns with no button pressed "
-            f"(path {path_text(path, coil, ctx)}): use three-wire control (momentary start with seal-in) "
+            f"(path {path_text(path, coil, ctx)}): use three-wire control (momentary start with seal-in"
+            f"{', or the drive set to control: three-wire with its stop input drawn' if dev.kind in DRIVE_KINDS else ''}) "
             f"so the motor stays off until started, or set restart: automatic on the rung if that is intended",
             subject_of(ctx, coil),
         )

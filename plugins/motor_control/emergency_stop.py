@@ -16,13 +16,17 @@ emergency stop must drop it directly, through a relay it drops, or by dropping t
 input where one is drawn (the drive runs only while that is energized). Dropping the run command
 gives a stop by command (common practice for stop category 1); whether the drive's power or its safe
 torque off must also be removed is for the machine's risk assessment and stop category, which
-ctllint does not see. A drive may give estop_exempt as a contactor does.
+ctllint does not see. A drive may give estop_exempt as a contactor does. A drive set to
+control: three-wire latches its run command and stops only when its stop input drops: the emergency
+stop must drop its stop input (directly or through a relay it drops; dropping the run and stop
+inputs' common feed does both), and dropping its run input alone is not enough.
 """
 from __future__ import annotations
 
 from typing import Iterator
 
 from ctllint.api import CheckContext, Example, Finding, Rule, reflow
+from ctllint.reading.kinds import three_wire
 from ctllint.reading.model import Element, Severity
 from ctllint_plugins.motor_control._devices import (
     CONTACTOR_KINDS, DRIVE_KINDS, coil_loads, coils_of, contacts_of, device_of, drive_command_inputs, safety_loads,
@@ -101,7 +105,9 @@ def check(ctx: CheckContext) -> Iterator[Finding]:
             # A drive's or soft starter's run input starts its motor as a starter's coil does: it is
             # one of the "coils" to drop, and dropped when its run input or its stop input is.
             drive_inputs = drive_command_inputs(ctx, "run", "stop")
-            stopped_drives = {load.tag for load in drive_inputs if load.index in governed}
+            # A three-wire drive latches its run command: only its stop input stops it.
+            stopped_drives = {load.tag for load in drive_inputs if load.index in governed
+                              and (load.part == "stop" or not three_wire(device_of(ctx, load.tag)))}
             for coil in coil_loads(ctx) + drive_inputs:
                 supply = circuit.supply_of(coil) if coil.index in governed else None
                 if supply is not None and supply.name not in supplies and device_of(ctx, coil.tag).kind in (*CONTACTOR_KINDS, *DRIVE_KINDS):
@@ -112,22 +118,28 @@ def check(ctx: CheckContext) -> Iterator[Finding]:
                 supply = circuit.supply_of(coil)
                 if coil_dev.kind not in (*CONTACTOR_KINDS, *DRIVE_KINDS) or supply is None or supply.name not in supplies:
                     continue
-                if coil.index in governed or coil.tag in stopped_drives or not circuit.has_energizing_path(coil):
+                latched = coil.part == "run" and three_wire(coil_dev)  # its run input dropped does not stop it
+                if (coil.index in governed and not latched) or coil.tag in stopped_drives or not circuit.has_energizing_path(coil):
                     continue
                 reason = coil_dev.get("estop_exempt")
                 if isinstance(reason, str) and reason.strip():
                     continue  # left running on purpose, for the reason given (an empty one is a format error)
+                if latched:  # named by the input that would stop it, which stays energized
+                    coil = next((s for s in drive_inputs if s.tag == coil.tag and s.part == "stop"), coil)
                 missed.setdefault(supply.name, []).append(coil)
             if missed:
                 # Each coil with its own supply: never a supply where nothing is missed.
                 where = "; ".join(f"{names_of(coils)} on supply {name}" for name, coils in missed.items())
-                drives_missed = [c for coils in missed.values() for c in coils if c.part == "run"]
+                drives_missed = [c for coils in missed.values() for c in coils if c.part in ("run", "stop")]
                 runs = keeps = ""
                 if drives_missed:
-                    runs = " and drive run input"
+                    runs = " and drive run input" if any(c.part == "run" for c in drives_missed) else ""
+                    runs += " and three-wire drive stop input" if any(c.part == "stop" for c in drives_missed) else ""
                     keeps = "".join(
                         f"; {device_of(ctx, c.tag).kind} {c.tag} keeps "
                         + (f"motor {device_of(ctx, c.tag).get('feeds')}" if device_of(ctx, c.tag).get("feeds") else "its motor") + " running"
+                        + (f" (it is set to three-wire control and latches its run command: {tag} must drop its stop input)"
+                           if three_wire(device_of(ctx, c.tag)) else "")
                         for c in drives_missed)
                 problems.append(
                     f"it does not govern {where} (each can be energized with "

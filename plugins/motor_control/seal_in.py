@@ -14,17 +14,19 @@ another coil that this button does not start is no seal either: wired around the
 starts this coil whenever that one runs. The message says which of these the wrong seal does, and
 the advice never suggests a timer's timed contact.
 
-A drive's or soft starter's run input is a coil here: ctllint reads its inputs as levels (it runs
-while its run input is energized), so a momentary start straight to it needs a seal-in, such as its
-run relay's NO across the start or an interposing relay. A drive set to latch a start pulse by
-itself is not modelled: draw the interposing relay, or suppress the finding with that reason.
+A drive's or soft starter's run input is a coil here: a two-wire drive (the default) runs only
+while its run input is energized, so a momentary start straight to it needs a seal-in, such as its
+run relay's NO across the start or an interposing relay. A drive set to control: three-wire latches
+a start pulse itself until its stop input drops, so it is its own seal: a momentary start straight
+to its run input passes (its stop input must be drawn; stop-in-series checks that the stops are
+in it).
 """
 from __future__ import annotations
 
 from typing import Iterator
 
 from ctllint.api import CheckContext, Example, Finding, Rule, reflow
-from ctllint.reading.kinds import LOAD
+from ctllint.reading.kinds import LOAD, three_wire
 from ctllint.reading.model import Element, Severity
 from ctllint_plugins.motor_control._devices import (
     COIL_KINDS, CONTACTOR_KINDS, DRIVE_KINDS, STARTER_EXAMPLE, device_of, is_momentary_pushbutton,
@@ -55,6 +57,8 @@ def check(ctx: CheckContext) -> Iterator[Finding]:
             if coil.part != "coil" or coil_dev is None or coil_dev.kind not in COIL_KINDS:
                 if not _is_drive_input(ctx, coil, "run"):  # a drive runs only while its run input is energized
                     continue
+                if three_wire(coil_dev):  # it latches the start pulse itself: its own seal
+                    continue
             if ctx.schematic.rungs[coil.rung].jog:
                 continue
             if blocks is None:
@@ -68,9 +72,11 @@ def check(ctx: CheckContext) -> Iterator[Finding]:
                     start.loc,
                     f"start button {start.tag} ({start.text}) energizes the run input {coil.text} of {coil_dev.kind} {coil.tag}, "
                     f"but no NO contact is wired around it: the {coil_dev.kind} stops as soon as the button is released "
-                    f"(ctllint reads its inputs as levels; a drive set to latch a start pulse by itself is not modelled); "
+                    f"(set to two-wire control, it runs only while its run input is energized); "
                     f"add a seal-in in parallel with {start.text}: its run relay {coil.tag}.NO, or a control relay started by "
-                    f"the button, sealed across it, whose NO gives the run command; or set jog: true on the rung if that is intended",
+                    f"the button, sealed across it, whose NO gives the run command; or, if the {coil_dev.kind} is set to latch "
+                    f"a start pulse itself, say control: three-wire on {coil.tag} and draw its stop input; "
+                    f"or set jog: true on the rung if that is intended",
                     f"{start.text}@{coil.text}",
                 )
                 continue

@@ -23,6 +23,12 @@ command that shows states. ``Simulator(circuit)`` holds:
   together, and go off as soon as power or a channel drops (a reset button
   in the feedback loop: the restart waits for it, and for the mirror
   contacts in the loop);
+- for each drive and soft starter: whether it runs (its run relay moved):
+  set to two-wire control, while its run input (and its stop input, where
+  drawn) is energized; set to three-wire control, from a rising of its run
+  input while its stop input is energized until the stop input drops, it
+  trips or control power goes (the latch is lost: a run input already on
+  at power-up or at rest is no start). Neither runs while tripped;
 - for each alternating relay: its coil state and whose turn it is (A at
   rest): A is closed while the coil is on in A's turn, B in B's, and the
   turn passes to the other output each time the coil drops out.

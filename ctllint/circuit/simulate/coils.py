@@ -5,7 +5,10 @@ input (and stop input, where drawn) is on and they are not tripped; safety
 relays start when power, both channels and the feedback loop are on
 together and stop when power or a channel drops; latching relays are set
 and reset by their two coils; alternating relays pass the turn when their
-coil drops out; timers time (FORMAT.md "Behaviour model"). Its own module:
+coil drops out; timers time (FORMAT.md "Behaviour model"). A drive set to
+three-wire control starts on the rising of its run input while its stop
+input is on, and runs until the stop input drops, it trips or control power
+is lost; a run input already on at power-up (or at rest) is no start. Its own module:
 the behaviour of each kind of device, apart from the state it acts on
 (``state``) and the order of evaluation (``settle``).
 """
@@ -26,10 +29,14 @@ class CoilResponses(NetworkState):
             if self.moved[tag] != on:
                 self.moved[tag] = on
                 changed = True
+        three = self._latching_drives
         for tag in self._drive_tags:  # runs: run input on, stop input on where drawn, not tripped
             on = self._latch_coils
-            run = ((tag, "run") in on and (tag not in self._drive_stop or (tag, "stop") in on)
-                   and not self.tripped.get(tag, False))
+            run_in = (tag, "run") in on
+            if tag in three:  # latched: started by a rising of the run input, kept while the stop input is on
+                run_in = self.running[tag] or (run_in and self.run_seen[tag] is False)
+            run = (run_in and (tag not in self._drive_stop or (tag, "stop") in on)
+                   and not self.tripped.get(tag, False) and self.power_on)
             if run != self.running[tag]:
                 self.running[tag] = run
                 changed = True
@@ -74,3 +81,13 @@ class CoilResponses(NetworkState):
                 timer.out = out
                 changed = True
         return changed
+
+    def _drives_see(self) -> None:
+        """After settling: what each three-wire drive's run input is now, for the next rising.
+
+        Without control power the latch is lost and the input unknown (None):
+        after power-up, a run input already on when the circuit settles is no
+        start, and the drive starts on the next rising of it.
+        """
+        for tag in self._three_wire:
+            self.run_seen[tag] = (tag, "run") in self._latch_coils if self.power_on else None

@@ -10,6 +10,8 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
+from ctllint.reading.kinds import three_wire
+
 if TYPE_CHECKING:  # pragma: no cover
     from ctllint.circuit.graph import CircuitGraph
 
@@ -23,7 +25,7 @@ _SWITCH_KINDS = {
     "foot-switch",
 }
 _TRIPPABLE = {"overload", "fuse", "breaker", "drive", "soft-starter", "motor-breaker"}
-DRIVES = ("drive", "soft-starter")  # run while run (and stop, where drawn) inputs are on and not tripped
+DRIVES = ("drive", "soft-starter")  # run while run (and stop, where drawn) inputs are on and not tripped; three-wire: latched
 # Kinds whose contacts are never worked by hand (a relay whose coil is in no
 # rung keeps its contacts at rest).
 _NOT_SWITCHES = {"selector", "overload", "relay", "timer", "contactor", "starter", "alternating-relay", "latching-relay",
@@ -79,7 +81,11 @@ class DeviceTables:
         # and the feedback loop are on together, and stop as soon as power or a channel drops.
         self._safety_tags = [t for t in self._load_tags if self._kind.get(t) == "safety-relay"]
         self._drive_tags = [t for t in self._load_tags if self._kind.get(t) in DRIVES]
-        self._drive_stop = {el.tag for el in self._loads if el.tag in self._drive_tags and el.part == "stop"}
+        self._drive_set = set(self._drive_tags)  # for membership: a panel may hold hundreds of drives
+        self._drive_stop = {el.tag for el in self._loads if el.tag in self._drive_set and el.part == "stop"}
+        # Drives set to three-wire control latch a start pulse themselves (``coils``).
+        self._three_wire = [t for t in self._drive_tags if three_wire(sch.devices.get(t))]
+        self._latching_drives = frozenset(self._three_wire)
         for tag, dev in sch.devices.items():
             kind = dev.kind
             if kind == "selector":

@@ -57,7 +57,7 @@ class Settling(CoilResponses):
                 a, b = find(el.left), find(el.right)
                 if (a, b) in pairs or (b, a) in pairs:
                     state[el.tag] = True
-                    if el.tag in self.latched or el.tag in self.started or el.tag in self._drive_stop or el.tag in self._drive_tags:
+                    if el.tag in self.latched or el.tag in self.started or el.tag in self._drive_stop or el.tag in self._drive_set:
                         coils.add((el.tag, el.part))
         self._energized = state
         self._latch_coils = coils
@@ -87,6 +87,7 @@ class Settling(CoilResponses):
         else:
             result.settled = False
             result.oscillating = list(self._coil_tags)
+        self._drives_see()
         result.shorts = self._shorts()
         if result.shorts:
             result.settled = False

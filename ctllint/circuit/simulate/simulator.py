@@ -19,14 +19,22 @@ from ctllint.circuit.simulate.timing import Timing
 class Simulator(ScenarioRunner, Timing):
     """The state of a circuit and the actions of FORMAT.md "Behaviour checks"."""
 
+    def __init__(self, circuit):
+        super().__init__(circuit)
+        if self._three_wire:
+            # The rest state as its three-wire drives see it before any action: without it the
+            # first action would count as power-up, and a start pressed then would be no start.
+            self._settle()
+
     # -- queries --------------------------------------------------------------
     def energized(self, tag: str) -> bool:
         """Whether load ``tag`` (a device's coil, or a bare load) is energized."""
         return self._energized.get(tag, False)
 
     def states(self) -> dict[str, bool]:
-        """Every load tag, file order, and whether it is energized."""
-        held = {**self.latched, **self.started}
+        """Every load tag, file order, and whether it is energized; for a latching relay whether it is set,
+        for a safety relay whether its outputs are on, for a drive whether it runs (what ``check`` reads)."""
+        held = {**self.latched, **self.started, **self.running}
         return {t: held[t] if t in held else self._energized.get(t, False) for t in self._load_tags}
 
     def state_of(self, tag: str) -> bool:
@@ -38,7 +46,7 @@ class Simulator(ScenarioRunner, Timing):
             return self.latched[tag]
         if tag in self.started:
             return self.started[tag]
-        if tag in self._drive_tags:
+        if tag in self._drive_set:
             return self._running(tag)
         if tag in self._energized:
             return self._energized[tag]

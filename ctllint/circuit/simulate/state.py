@@ -50,13 +50,18 @@ class NetworkState(DeviceTables):
         self.latched = {t: False for t in self._latch_tags}
         self.started = {t: False for t in self._safety_tags}
         self.running = {t: False for t in self._drive_tags}
+        # A three-wire drive's run input as the drive saw it in the last settled state with control
+        # power on; None after power-up (and at rest) until a state has settled: a run input that is
+        # already on then is no start (``coils``).
+        self.run_seen: dict[str, bool | None] = {t: None for t in self._three_wire}
         self.time = 0.0
         self._energized = {t: False for t in self._load_tags}
 
     def _key(self) -> tuple:
         return (tuple(self.moved[t] for t in self._relays) + tuple((tm.coil, tm.out) for tm in self._timers.values())
                 + tuple(tuple(st) for st in self._alternators.values()) + tuple(self.latched[t] for t in self._latch_tags)
-                + tuple(self.started[t] for t in self._safety_tags) + tuple(self.running[t] for t in self._drive_tags))
+                + tuple(self.started[t] for t in self._safety_tags) + tuple(self.running[t] for t in self._drive_tags)
+                + tuple(self.run_seen[t] for t in self._three_wire))
 
     def _closed(self, el: Element) -> bool:
         role, tag, part = el.role, el.tag, el.part

@@ -60,7 +60,32 @@ def check_device_references(st: FileState, sch: Schematic) -> None:
             role = K.CONTACT
         el.role = role or ""
         el.inductive = bool(role == K.LOAD and kind.inductive)
+    check_three_wire_stops(st, sch)
     check_terminals(st, sch)
+
+
+def check_three_wire_stops(st: FileState, sch: Schematic) -> None:
+    """A three-wire drive whose run input is drawn and whose stop input is not: nothing could stop it.
+
+    It latches its run command until its stop input drops, so without one the
+    control circuit can start it but never stop it (only a trip or a loss of
+    control power would). Reported at its first run input, in the file that
+    draws it (the device may come from a shared device file).
+    """
+    runs: dict[str, object] = {}
+    stops: set[str] = set()
+    for el in sch.elements:
+        if el.part == "run" and el.role == K.LOAD:
+            runs.setdefault(el.tag, el)
+        elif el.part == "stop" and el.role == K.LOAD:
+            stops.add(el.tag)
+    for tag, el in runs.items():
+        dev = sch.devices.get(tag)
+        if tag not in stops and K.three_wire(dev):
+            st.sink.error(el.loc, f"{dev.kind} {tag} is set to control: three-wire (it latches its run command until its stop "
+                                  f"input drops), but its stop input {tag}.stop is drawn in no rung, so nothing in the control "
+                                  f"circuit could stop it: draw {tag}.stop through the stop button's NC contact, or set "
+                                  f"control: two-wire")
 
 
 def check_terminals(st: FileState, sch: Schematic) -> None:
