@@ -31,9 +31,6 @@ from ctllint.reading.loader.rungs import REF_RE, RUNG_KEYS
 from ctllint.reading.loader.sink import LoadResult, count_lines, excerpt, format_error
 from ctllint.reading.loader.supplies import SUPPLY_KEYS
 
-# The name ctllint.review.diff imports (a private name of the module this package was).
-_link_out_of_repository = link_out_of_repository
-
 __all__ = [
     "CATEGORY_RE", "DEVICE_FILE_KEYS", "FORMAT_VERSION", "NEMA_SIZES", "PILOT_DUTY", "PILOT_DUTY_VALID", "REF_RE",
     "REQUIRED_TOP", "RUNG_KEYS", "SCHEMATIC_SUFFIXES", "STEP_ACTIONS", "SUPPLY_KEYS", "TAG_RE", "TOP_KEYS",
